@@ -1,0 +1,262 @@
+"""ActiveSpace: which molecular orbitals and electrons the correlated (qubit) problem keeps.
+
+Orbitals below the active ones are doubly occupied core, folded into a constant and an effective one-electron
+operator; orbitals above are dropped. Orbital indices are 0-based canonical SCF orbitals in energy order.
+"""
+
+from __future__ import annotations
+
+import warnings
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .chemistry import ScfSolution
+from .elements import frozen_core_orbitals
+from .errors import ActiveSpaceError, DegenerateBoundaryWarning
+from .molecule import MoleculeSpec
+
+DEGENERACY_TOL = 1e-4  # Hartree: orbitals closer than this in energy count as one degenerate set
+MP2_OCCUPATION_WINDOW = (0.02, 1.98)  # common practice, no single source
+
+
+@dataclass(frozen=True)
+class ActiveSpace:
+    """Configuration of an active space; :meth:`resolve` applies it to one molecule.
+
+    - ``ActiveSpace()``: every orbital and electron (full space).
+    - ``ActiveSpace(electrons=4, orbitals=4)``: the window around the Fermi level.
+    - ``ActiveSpace(indices=[1, 2, 5])``: these orbitals; occupied ones outside them become core.
+    - ``ActiveSpace(frozen_core=True)``: drop the chemical core (1s for Li–Ne, 1s2s2p for Na–Ar, ...).
+    - ``ActiveSpace.auto()``: sized by MP2 natural-orbital occupation numbers.
+    """
+
+    electrons: int | None = None
+    orbitals: int | None = None
+    indices: tuple[int, ...] | None = None
+    frozen_core: bool = False
+    selection: str = "window"
+    occupation_window: tuple[float, float] = MP2_OCCUPATION_WINDOW
+
+    def __post_init__(self) -> None:
+        for name in ("electrons", "orbitals"):
+            value = getattr(self, name)
+            if value is not None and (not _is_int(value) or value < (1 if name == "orbitals" else 0)):
+                low = 1 if name == "orbitals" else 0
+                raise ActiveSpaceError(f"{name}={value!r} is not accepted; give an integer >= {low} or None")
+        if (self.electrons is None) != (self.orbitals is None) and self.indices is None:
+            raise ActiveSpaceError(
+                f"give electrons and orbitals together (got electrons={self.electrons!r}, "
+                f"orbitals={self.orbitals!r}), or indices=[...]"
+            )
+        if self.indices is not None:
+            idx = tuple(self.indices)
+            if not idx or not all(_is_int(i) and i >= 0 for i in idx):
+                raise ActiveSpaceError(f"indices={self.indices!r} must be a non-empty list of orbital indices >= 0")
+            if len(set(idx)) != len(idx):
+                raise ActiveSpaceError(f"indices={self.indices!r} repeat an orbital; list each orbital once")
+            if self.orbitals is not None and self.orbitals != len(idx):
+                raise ActiveSpaceError(f"orbitals={self.orbitals} disagrees with {len(idx)} indices given")
+            object.__setattr__(self, "indices", tuple(sorted(int(i) for i in idx)))
+        if self.selection not in ("window", "mp2-occupation"):
+            raise ActiveSpaceError(f"selection={self.selection!r}; accepted: 'window', 'mp2-occupation'")
+        low, high = self.occupation_window
+        if not 0.0 < low < high < 2.0:
+            raise ActiveSpaceError(
+                f"occupation_window={self.occupation_window!r} must satisfy 0 < low < high < 2 (electrons)"
+            )
+
+    @classmethod
+    def auto(
+        cls, *, low: float = MP2_OCCUPATION_WINDOW[0], high: float = MP2_OCCUPATION_WINDOW[1],
+        frozen_core: bool = True,
+    ) -> ActiveSpace:
+        """Keep the orbitals whose MP2 natural-orbital occupation lies in [low, high] (electrons)."""
+        return cls(selection="mp2-occupation", occupation_window=(float(low), float(high)), frozen_core=frozen_core)
+
+    def resolve(self, molecule: MoleculeSpec, scf: ScfSolution, *, warn: bool = True) -> ResolvedActiveSpace:
+        """Core, active and dropped orbital indices and active electron counts for this molecule."""
+        n_mo = scf.n_orbitals
+        n_docc, n_socc = scf.n_doubly_occupied, scf.n_singly_occupied
+        n_frozen = sum(frozen_core_orbitals(s) for s in molecule.symbols) if self.frozen_core else 0
+        if n_frozen > n_docc:
+            raise ActiveSpaceError(
+                f"frozen_core=True would freeze {n_frozen} core orbitals but only {n_docc} are doubly occupied "
+                f"for charge {molecule.charge:+d}; use frozen_core=False"
+            )
+        table: tuple[dict, ...] = ()
+        if self.indices is not None:
+            active = list(self.indices)
+            if active[-1] >= n_mo:
+                raise ActiveSpaceError(
+                    f"orbital index {active[-1]} is out of range; this molecule in {molecule.basis} has orbitals "
+                    f"0..{n_mo - 1}"
+                )
+            frozen = set(range(n_frozen))
+            if frozen & set(active):
+                raise ActiveSpaceError(f"indices {sorted(frozen & set(active))} are frozen core orbitals")
+            singles = [i for i in range(n_mo) if 0.5 < scf.mo_occ[i] < 1.5 and i not in active]
+            if singles:
+                raise ActiveSpaceError(
+                    f"singly occupied orbital(s) {singles} must be active for multiplicity {molecule.multiplicity}"
+                )
+            core = [i for i in range(n_mo) if scf.mo_occ[i] > 1.5 and i not in active]
+            n_active_electrons = molecule.n_electrons - 2 * len(core)
+            if self.electrons is not None and self.electrons != n_active_electrons:
+                raise ActiveSpaceError(
+                    f"electrons={self.electrons} disagrees with the {n_active_electrons} electrons that the "
+                    f"Hartree–Fock orbitals {active} hold"
+                )
+        else:
+            if self.selection == "mp2-occupation":
+                from .chemistry import natural_occupations
+
+                occupations = natural_occupations(scf, list(range(n_frozen)))
+                low, high = self.occupation_window
+                n_strong = int(np.count_nonzero(occupations >= high))
+                n_weak = int(np.count_nonzero(occupations <= low))
+                # never fewer than the highest occupied and lowest unoccupied orbital
+                n_core = min(max(n_strong, n_frozen), n_docc - (1 if n_socc == 0 and n_docc > n_frozen else 0))
+                n_orb = max(n_mo - n_weak - n_core, n_docc + n_socc - n_core + (1 if n_mo > n_docc + n_socc else 0))
+                electrons, orbitals = molecule.n_electrons - 2 * n_core, n_orb
+                table = _selection_table(scf, occupations, n_core, n_orb)
+            elif self.electrons is None:
+                electrons, orbitals = molecule.n_electrons - 2 * n_frozen, n_mo - n_frozen
+            else:
+                electrons, orbitals = int(self.electrons), int(self.orbitals)  # type: ignore[arg-type]
+            core_count = _window_core(molecule, scf, electrons, orbitals, n_frozen)
+            core = list(range(core_count))
+            active = list(range(core_count, core_count + orbitals))
+        n_unpaired = molecule.multiplicity - 1
+        n_act_e = molecule.n_electrons - 2 * len(core)
+        n_alpha, n_beta = (n_act_e + n_unpaired) // 2, (n_act_e - n_unpaired) // 2
+        if n_alpha > len(active):
+            raise ActiveSpaceError(
+                f"{n_act_e} active electrons ({n_alpha} alpha) do not fit in {len(active)} orbitals; "
+                f"give at least {n_alpha} orbitals"
+            )
+        external = [i for i in range(n_mo) if i not in active and i not in core]
+        resolved = ResolvedActiveSpace(
+            core=tuple(core),
+            active=tuple(active),
+            external=tuple(external),
+            n_alpha=n_alpha,
+            n_beta=n_beta,
+            orbital_energies=tuple(float(e) for e in scf.mo_energy),
+            orbital_occupations=tuple(float(o) for o in scf.mo_occ),
+            selection_table=table,
+        )
+        if warn:
+            for message in resolved.degenerate_cuts():
+                warnings.warn(message, DegenerateBoundaryWarning, stacklevel=3)
+        return resolved
+
+    def __repr__(self) -> str:
+        if self.selection == "mp2-occupation":
+            return f"ActiveSpace.auto(low={self.occupation_window[0]}, high={self.occupation_window[1]}, " \
+                f"frozen_core={self.frozen_core})"
+        parts = []
+        if self.indices is not None:
+            parts.append(f"indices={list(self.indices)}")
+        elif self.electrons is not None:
+            parts.append(f"electrons={self.electrons}, orbitals={self.orbitals}")
+        if self.frozen_core:
+            parts.append("frozen_core=True")
+        return f"ActiveSpace({', '.join(parts) or 'full space'})"
+
+
+def _window_core(molecule: MoleculeSpec, scf: ScfSolution, electrons: int, orbitals: int, n_frozen: int) -> int:
+    """Number of core orbitals for ``electrons`` in ``orbitals`` around the Fermi level, with every check."""
+    n_mo = scf.n_orbitals
+    n_total = molecule.n_electrons
+    n_unpaired = molecule.multiplicity - 1
+    available = n_total - 2 * n_frozen
+    if electrons > available:
+        frozen = f" outside the {n_frozen} frozen core orbitals" if n_frozen else ""
+        raise ActiveSpaceError(f"active space asks for {electrons} electrons but {molecule.formula} has {available}"
+                               f"{frozen}; give electrons <= {available}")
+    if electrons < n_unpaired or (electrons - n_unpaired) % 2:
+        raise ActiveSpaceError(
+            f"{electrons} active electrons are inconsistent with multiplicity {molecule.multiplicity}: the active "
+            f"space must hold the {n_unpaired} unpaired electron(s) plus pairs, i.e. {n_unpaired}, "
+            f"{n_unpaired + 2}, {n_unpaired + 4}, ... electrons"
+        )
+    core = (n_total - electrons) // 2
+    if core + orbitals > n_mo:
+        raise ActiveSpaceError(
+            f"active space asks for {orbitals} orbitals above {core} core orbitals, but {molecule.formula} in "
+            f"{molecule.basis} has {n_mo} orbitals; give orbitals <= {n_mo - core}"
+        )
+    return core
+
+
+def _selection_table(scf: ScfSolution, occupations: np.ndarray, n_core: int, n_orb: int) -> tuple[dict, ...]:
+    rows = []
+    for i in range(scf.n_orbitals):
+        role = "core" if i < n_core else "active" if i < n_core + n_orb else "dropped"
+        rows.append({"orbital": i, "energy": float(scf.mo_energy[i]), "hf_occupation": float(scf.mo_occ[i]),
+                     "mp2_occupation": float(occupations[i]), "role": role})
+    return tuple(rows)
+
+
+@dataclass(frozen=True)
+class ResolvedActiveSpace:
+    """An active space applied to one molecule: orbital index lists and active electron counts."""
+
+    core: tuple[int, ...]
+    active: tuple[int, ...]
+    external: tuple[int, ...]
+    n_alpha: int
+    n_beta: int
+    orbital_energies: tuple[float, ...] = field(repr=False, default=())
+    orbital_occupations: tuple[float, ...] = field(repr=False, default=())
+    selection_table: tuple[dict, ...] = field(repr=False, default=())
+
+    @property
+    def n_orbitals(self) -> int:
+        return len(self.active)
+
+    @property
+    def n_electrons(self) -> int:
+        return self.n_alpha + self.n_beta
+
+    @property
+    def n_spin_orbitals(self) -> int:
+        """Qubits before tapering under any of the linear encodings."""
+        return 2 * len(self.active)
+
+    def degenerate_cuts(self, tol: float = DEGENERACY_TOL) -> list[str]:
+        """Messages for each active orbital whose energy is within ``tol`` (Ha) of an orbital left out."""
+        e = self.orbital_energies
+        messages = []
+        outside = list(self.core) + list(self.external)
+        for p in self.active:
+            partners = [q for q in outside if abs(e[p] - e[q]) < tol]
+            if partners:
+                messages.append(
+                    f"active orbital {p} ({e[p]:.6f} Ha) is degenerate with orbital(s) {partners} left out of the "
+                    "active space; results may depend on an arbitrary choice among them. Include or exclude the "
+                    "whole degenerate set"
+                )
+        return messages
+
+    def explain(self) -> str:
+        """Plain-text table of orbital energies, occupations and roles."""
+        lines = [f"{'orbital':>7} {'energy/Ha':>11} {'HF occ':>6} {'MP2 NO occ':>10}  role"]
+        rows = self.selection_table or tuple(
+            {"orbital": i, "energy": en, "hf_occupation": occ, "mp2_occupation": float("nan"),
+             "role": "core" if i in self.core else "active" if i in self.active else "dropped"}
+            for i, (en, occ) in enumerate(zip(self.orbital_energies, self.orbital_occupations))
+        )
+        for r in rows:
+            mp2 = "—" if np.isnan(r["mp2_occupation"]) else f"{r['mp2_occupation']:.4f}"
+            lines.append(f"{r['orbital']:>7} {r['energy']:>11.5f} {r['hf_occupation']:>6.2f} {mp2:>10}  {r['role']}")
+        return "\n".join(lines)
+
+    def __str__(self) -> str:
+        return (f"({self.n_electrons}e, {self.n_orbitals}o) active: orbitals {list(self.active)}, "
+                f"core {list(self.core)}, {len(self.external)} dropped")
+
+
+def _is_int(value: object) -> bool:
+    return isinstance(value, (int, np.integer)) and not isinstance(value, bool)

@@ -1,0 +1,63 @@
+"""One hierarchy of errors. Every bad-input error is a ``ValueError`` and says what was wrong and what is accepted."""
+
+from __future__ import annotations
+
+
+class GroundkitError(ValueError):
+    """Base of every groundkit error."""
+
+
+class MoleculeError(GroundkitError):
+    """A molecule that cannot exist as given: symbols, coordinates, charge or multiplicity."""
+
+
+class ElementError(MoleculeError):
+    """An element symbol that is not in the periodic table."""
+
+
+class GeometryError(MoleculeError):
+    """Coordinates of the wrong shape, non-finite, or atoms too close together."""
+
+
+class ChargeError(MoleculeError):
+    """A charge that leaves no electrons or a negative electron count."""
+
+
+class MultiplicityError(MoleculeError):
+    """A spin multiplicity below 1 or of the wrong parity for the electron count."""
+
+
+class BasisError(MoleculeError):
+    """A basis set name that PySCF does not know."""
+
+
+class XYZFormatError(MoleculeError):
+    """Malformed XYZ text; the message gives the line number."""
+
+
+class ActiveSpaceError(GroundkitError):
+    """An active space that the molecule cannot supply."""
+
+
+class ConvergenceError(GroundkitError):
+    """A self-consistent field that did not converge after every remedy was tried."""
+
+
+class SizeLimitError(GroundkitError):
+    """A computation above a documented size limit (determinants, qubits)."""
+
+
+class ExcitationError(GroundkitError):
+    """An excitation that breaks particle number or Sz, repeats an index or leaves the orbital range."""
+
+
+class ParameterError(GroundkitError):
+    """A parameter vector of the wrong length or with non-finite entries."""
+
+
+class ComponentError(GroundkitError):
+    """An unknown component name or an option out of range."""
+
+
+class DegenerateBoundaryWarning(UserWarning):
+    """An active-space boundary that cuts through a set of degenerate orbitals."""

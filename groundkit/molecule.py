@@ -1,0 +1,261 @@
+"""MoleculeSpec: an immutable description of one molecule at one geometry, in one basis set."""
+
+from __future__ import annotations
+
+import math
+import os
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass, field, replace
+from typing import TYPE_CHECKING, Any
+
+from .chemistry import check_basis
+from .elements import atomic_number, canonical_symbol
+from .errors import BasisError, ChargeError, ElementError, GeometryError, MultiplicityError, XYZFormatError
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .pipeline import Pipeline
+
+BOHR_PER_ANGSTROM = 1.8897261245650618  # CODATA 2018 Bohr radius 0.529177210903 Å
+MIN_DISTANCE_ANGSTROM = 0.1
+UNITS = ("angstrom", "bohr")
+
+
+@dataclass(frozen=True)
+class MoleculeSpec:
+    """A molecule: element symbols, Cartesian coordinates (``unit``), charge, spin multiplicity 2S+1 and basis.
+
+    Value object: equal specs compare and hash equal, so they key the SCF cache. Use :meth:`with_coordinates`
+    for a new geometry.
+    """
+
+    symbols: tuple[str, ...]
+    coordinates: tuple[tuple[float, float, float], ...]
+    charge: int = 0
+    multiplicity: int = 1
+    basis: str = "sto-3g"
+    unit: str = "angstrom"
+    name: str | None = field(default=None, compare=False)
+
+    def __post_init__(self) -> None:
+        symbols = tuple(canonical_symbol(s) for s in _as_sequence(self.symbols, "symbols"))
+        coords = _check_coordinates(self.coordinates, len(symbols))
+        unit = str(self.unit).lower()
+        if unit not in UNITS:
+            raise GeometryError(f"unit {self.unit!r} is not accepted; use one of {UNITS}")
+        if not isinstance(self.basis, str) or not self.basis.strip():
+            raise BasisError(f"basis {self.basis!r} must be a basis-set name such as 'sto-3g' or 'cc-pvdz'")
+        object.__setattr__(self, "symbols", symbols)
+        object.__setattr__(self, "coordinates", coords)
+        object.__setattr__(self, "unit", unit)
+        object.__setattr__(self, "basis", self.basis.strip().lower())
+        for symbol in set(symbols):
+            check_basis(self.basis, symbol)
+        _check_distances(symbols, self.coordinates_angstrom)
+        _check_charge_and_spin(symbols, self.charge, self.multiplicity)
+        object.__setattr__(self, "charge", int(self.charge))
+        object.__setattr__(self, "multiplicity", int(self.multiplicity))
+
+    # construction -------------------------------------------------------------------------------------------
+    @classmethod
+    def from_xyz(
+        cls,
+        text_or_path: str | os.PathLike,
+        *,
+        basis: str = "sto-3g",
+        charge: int = 0,
+        multiplicity: int = 1,
+        unit: str = "angstrom",
+        name: str | None = None,
+    ) -> MoleculeSpec:
+        """Read plain XYZ text or a file: optional count and comment lines, then ``symbol x y z`` per atom."""
+        text = _read_text(text_or_path)
+        symbols, coords, comment = parse_xyz(text)
+        return cls(
+            symbols=symbols,
+            coordinates=coords,
+            charge=charge,
+            multiplicity=multiplicity,
+            basis=basis,
+            unit=unit,
+            name=name if name is not None else (comment or None),
+        )
+
+    def with_coordinates(self, coordinates: Iterable[Sequence[float]], unit: str | None = None) -> MoleculeSpec:
+        """The same molecule at new coordinates (in ``unit``, default this spec's unit)."""
+        return replace(self, coordinates=tuple(tuple(c) for c in coordinates), unit=unit or self.unit)
+
+    def with_options(self, **changes: Any) -> MoleculeSpec:
+        """A copy with some fields changed (``basis``, ``charge``, ``multiplicity``, ``name``...)."""
+        return replace(self, **changes)
+
+    def pipeline(self) -> Pipeline:
+        """A :class:`~groundkit.pipeline.Pipeline` for this molecule."""
+        from .pipeline import Pipeline
+
+        return Pipeline(self)
+
+    # derived facts --------------------------------------------------------------------------------------------
+    @property
+    def n_atoms(self) -> int:
+        return len(self.symbols)
+
+    @property
+    def atomic_numbers(self) -> tuple[int, ...]:
+        return tuple(atomic_number(s) for s in self.symbols)
+
+    @property
+    def n_electrons(self) -> int:
+        """Total electron count: sum of atomic numbers minus the charge."""
+        return sum(self.atomic_numbers) - self.charge
+
+    @property
+    def n_unpaired(self) -> int:
+        """Unpaired electrons, multiplicity − 1 (= 2S)."""
+        return self.multiplicity - 1
+
+    @property
+    def coordinates_angstrom(self) -> tuple[tuple[float, float, float], ...]:
+        if self.unit == "angstrom":
+            return self.coordinates
+        return tuple(tuple(x / BOHR_PER_ANGSTROM for x in c) for c in self.coordinates)  # type: ignore[misc]
+
+    @property
+    def formula(self) -> str:
+        """Hill-order formula (C, H first, then alphabetical), e.g. 'H2O' is written 'H2O'."""
+        counts: dict[str, int] = {}
+        for s in self.symbols:
+            counts[s] = counts.get(s, 0) + 1
+        order = (["C", "H"] if "C" in counts else []) + sorted(k for k in counts if "C" not in counts or k not in "CH")
+        return "".join(f"{s}{counts[s] if counts[s] > 1 else ''}" for s in order)
+
+    def distance(self, i: int, j: int) -> float:
+        """Distance between atoms ``i`` and ``j`` in angstrom."""
+        a, b = self.coordinates_angstrom[i], self.coordinates_angstrom[j]
+        return math.dist(a, b)
+
+    def to_xyz(self) -> str:
+        """XYZ text in angstrom, with the count and comment lines."""
+        lines = [str(self.n_atoms), self.name or self.formula]
+        for s, (x, y, z) in zip(self.symbols, self.coordinates_angstrom):
+            lines.append(f"{s:<2} {x:14.8f} {y:14.8f} {z:14.8f}")
+        return "\n".join(lines) + "\n"
+
+    def __repr__(self) -> str:
+        label = f"{self.name!r}, " if self.name else ""
+        charge = f", charge={self.charge:+d}" if self.charge else ""
+        return (
+            f"MoleculeSpec({label}{self.formula}, {self.n_atoms} atoms, basis={self.basis!r}{charge}, "
+            f"multiplicity={self.multiplicity}, unit={self.unit!r})"
+        )
+
+
+# helpers --------------------------------------------------------------------------------------------------------
+def _as_sequence(value: Any, what: str) -> tuple:
+    if isinstance(value, str):
+        value = value.split()
+    try:
+        return tuple(value)
+    except TypeError:
+        raise GeometryError(f"{what} must be a sequence, got {value!r}") from None
+
+
+def _check_coordinates(coordinates: Any, n_atoms: int) -> tuple[tuple[float, float, float], ...]:
+    rows = _as_sequence(coordinates, "coordinates")
+    if len(rows) != n_atoms:
+        raise GeometryError(f"coordinates have {len(rows)} rows for {n_atoms} atoms; give one (x, y, z) per atom")
+    out = []
+    for k, row in enumerate(rows):
+        try:
+            values = tuple(float(x) for x in row)
+        except (TypeError, ValueError):
+            raise GeometryError(f"coordinates row {k} = {row!r} is not three numbers (x, y, z)") from None
+        if len(values) != 3:
+            raise GeometryError(f"coordinates row {k} = {row!r} has {len(values)} values; give three (x, y, z)")
+        if not all(math.isfinite(x) for x in values):
+            raise GeometryError(f"coordinates row {k} = {row!r} is not finite; give finite numbers")
+        out.append(values)
+    if n_atoms == 0:
+        raise GeometryError("a molecule needs at least one atom; symbols was empty")
+    return tuple(out)  # type: ignore[return-value]
+
+
+def _check_distances(symbols: tuple[str, ...], coords: tuple[tuple[float, float, float], ...]) -> None:
+    for i in range(len(coords)):
+        for j in range(i):
+            d = math.dist(coords[i], coords[j])
+            if d < MIN_DISTANCE_ANGSTROM:
+                raise GeometryError(
+                    f"atoms {j} ({symbols[j]}) and {i} ({symbols[i]}) are {d:.4f} Å apart; "
+                    f"atoms must be at least {MIN_DISTANCE_ANGSTROM} Å apart (check the unit)"
+                )
+
+
+def _check_charge_and_spin(symbols: tuple[str, ...], charge: Any, multiplicity: Any) -> None:
+    if int(charge) != charge:
+        raise ChargeError(f"charge {charge!r} must be an integer")
+    if int(multiplicity) != multiplicity:
+        raise MultiplicityError(f"multiplicity {multiplicity!r} must be an integer 2S+1 >= 1")
+    n_electrons = sum(atomic_number(s) for s in symbols) - int(charge)
+    if n_electrons <= 0:
+        raise ChargeError(
+            f"charge {charge} leaves {n_electrons} electrons; the charge must be below "
+            f"{sum(atomic_number(s) for s in symbols)} (the nuclear charge) for this molecule"
+        )
+    multiplicity = int(multiplicity)
+    if multiplicity < 1:
+        raise MultiplicityError(f"multiplicity {multiplicity} is below 1; use 2S+1 (1 singlet, 2 doublet, ...)")
+    unpaired = multiplicity - 1
+    if unpaired % 2 != n_electrons % 2 or unpaired > n_electrons:
+        accepted = "even: 2, 4, 6, ..." if n_electrons % 2 else "odd: 1, 3, 5, ..."
+        raise MultiplicityError(
+            f"multiplicity {multiplicity} does not fit {n_electrons} electrons; with this electron count the "
+            f"multiplicity must be {accepted} and at most {n_electrons + 1}"
+        )
+
+
+def _read_text(text_or_path: str | os.PathLike) -> str:
+    if isinstance(text_or_path, os.PathLike):
+        with open(text_or_path, encoding="utf-8") as fh:
+            return fh.read()
+    text = str(text_or_path)
+    if "\n" not in text.strip() and os.path.isfile(text):
+        with open(text, encoding="utf-8") as fh:
+            return fh.read()
+    return text
+
+
+def parse_xyz(text: str) -> tuple[tuple[str, ...], tuple[tuple[float, float, float], ...], str]:
+    """Parse XYZ text: returns (symbols, coordinates, comment). Header lines are optional."""
+    lines = text.splitlines()
+    while lines and not lines[-1].strip():
+        lines.pop()
+    start, comment, expected = 0, "", None
+    while start < len(lines) and not lines[start].strip():
+        start += 1
+    if start < len(lines) and lines[start].strip().isdigit():
+        expected = int(lines[start].strip())
+        comment = lines[start + 1].strip() if start + 1 < len(lines) else ""
+        start += 2
+    symbols: list[str] = []
+    coords: list[tuple[float, float, float]] = []
+    for number, line in enumerate(lines[start:], start=start + 1):
+        fields = line.split()
+        if not fields:
+            raise XYZFormatError(f"line {number} is empty inside the atom block; expected 'symbol x y z'")
+        if len(fields) < 4:
+            raise XYZFormatError(f"line {number}: {line.strip()!r} has {len(fields)} fields; expected 'symbol x y z'")
+        try:
+            xyz = (float(fields[1]), float(fields[2]), float(fields[3]))
+        except ValueError:
+            raise XYZFormatError(f"line {number}: {line.strip()!r} has coordinates that are not numbers") from None
+        try:
+            symbols.append(canonical_symbol(fields[0]))
+        except ElementError as err:
+            raise XYZFormatError(f"line {number}: {err}") from None
+        coords.append(xyz)
+    if not symbols:
+        raise XYZFormatError("no atoms found; expected lines of 'symbol x y z' (optionally after a count and comment)")
+    if expected is not None and expected != len(symbols):
+        raise XYZFormatError(f"line {start - 1}: the count line says {expected} atoms but {len(symbols)} follow")
+    return tuple(symbols), tuple(coords), comment
+

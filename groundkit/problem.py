@@ -1,0 +1,172 @@
+"""Problem: the electronic Hamiltonian of one molecule in one active space, with its exact reference.
+
+Everything here is computed once and shared: pipelines that differ only downstream (mapping, trial state,
+minimiser) receive the same Problem object from :func:`build_problem`.
+"""
+
+from __future__ import annotations
+
+from collections import OrderedDict
+from functools import cached_property
+from math import comb
+
+import numpy as np
+
+from . import chemistry
+from .active_space import ActiveSpace, ResolvedActiveSpace
+from .baselines import Baselines
+from .errors import SizeLimitError
+from .molecule import MoleculeSpec
+from .reference import Reference, make_state
+
+REFERENCE_DETERMINANT_LIMIT = 20_000_000  # exact reference only up to this many determinants (~160 MB a vector)
+PROBLEM_CACHE_SIZE = 64
+
+
+class Problem:
+    """Active-space Hamiltonian ``H = core_energy + sum h1[p,q] E_pq + 1/2 sum h2[p,q,r,s] (E_pq E_rs - d_qr E_ps)``.
+
+    ``h1`` (n, n) and ``h2`` (n, n, n, n, chemists' notation (pq|rs)) are real, in Hartree, over the active
+    canonical orbitals, with the frozen core folded into ``h1`` and ``core_energy`` (nuclear repulsion included).
+    """
+
+    def __init__(self, molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> None:
+        self.molecule = molecule
+        self.active_space = active_space if active_space is not None else ActiveSpace()
+        self.scf = chemistry.solve_scf(molecule)
+        self.active_orbitals: ResolvedActiveSpace = self.active_space.resolve(molecule, self.scf)
+        self.core_energy, self.h1, self.h2 = chemistry.active_integrals(
+            self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active)
+        )
+        self.baselines = Baselines(self)
+        self._states: list = []
+
+    # sizes and quantum numbers ------------------------------------------------------------------------------
+    @property
+    def n_orbitals(self) -> int:
+        """Active spatial orbitals."""
+        return self.active_orbitals.n_orbitals
+
+    @property
+    def n_qubits(self) -> int:
+        """Spin orbitals of the active space: qubits before any tapering."""
+        return 2 * self.n_orbitals
+
+    @property
+    def n_alpha(self) -> int:
+        return self.active_orbitals.n_alpha
+
+    @property
+    def n_beta(self) -> int:
+        return self.active_orbitals.n_beta
+
+    @property
+    def n_electrons(self) -> int:
+        """Active electrons."""
+        return self.n_alpha + self.n_beta
+
+    @property
+    def multiplicity(self) -> int:
+        return self.molecule.multiplicity
+
+    @property
+    def spin(self) -> float:
+        """Total spin S requested (the exact reference has this S)."""
+        return 0.5 * (self.multiplicity - 1)
+
+    @property
+    def sz(self) -> float:
+        """Spin projection of the determinant space: high spin, Sz = S."""
+        return 0.5 * (self.n_alpha - self.n_beta)
+
+    @property
+    def n_determinants(self) -> int:
+        """Dimension of the (N, Sz) determinant space, C(n, N_alpha) * C(n, N_beta)."""
+        return comb(self.n_orbitals, self.n_alpha) * comb(self.n_orbitals, self.n_beta)
+
+    # energies -------------------------------------------------------------------------------------------------
+    @property
+    def scf_energy(self) -> float:
+        """RHF/ROHF total energy from PySCF (Ha)."""
+        return self.scf.energy
+
+    @cached_property
+    def hf_energy(self) -> float:
+        """Energy (Ha) of the Hartree–Fock determinant from the active-space Hamiltonian; equals ``scf_energy``."""
+        return determinant_energy(self.h1, self.h2, self.core_energy, range(self.n_alpha), range(self.n_beta))
+
+    @property
+    def reference(self) -> Reference:
+        """Exact ground state with this problem's N, Sz and S (computed on first use)."""
+        return Reference(states=tuple(self.lowest_states(1)))
+
+    def lowest_states(self, k: int) -> list:
+        """The ``k`` lowest exact states of the requested total spin, ascending in energy."""
+        if k < 1:
+            raise SizeLimitError(f"k={k} states asked for; ask for at least 1")
+        if len(self._states) < k:
+            if self.n_determinants > REFERENCE_DETERMINANT_LIMIT:
+                raise SizeLimitError(
+                    f"the exact reference needs {self.n_determinants:,} determinants, above the limit of "
+                    f"{REFERENCE_DETERMINANT_LIMIT:,}; choose a smaller active space"
+                )
+            found = chemistry.lowest_states(
+                self.h1, self.h2, self.core_energy, self.n_alpha, self.n_beta, self.spin, n_states=k
+            )
+            self._states = [make_state(e, ci, ss, self.n_orbitals, self.n_alpha, self.n_beta) for e, ci, ss in found]
+        return self._states[:k]
+
+    # views ----------------------------------------------------------------------------------------------------
+    def fermion_hamiltonian(self):
+        """The active-space Hamiltonian as an ``openfermion.InteractionOperator`` over interleaved spin orbitals."""
+        from openfermion import InteractionOperator
+        from openfermion.chem.molecular_data import spinorb_from_spatial
+
+        one, two = spinorb_from_spatial(self.h1, np.asarray(self.h2.transpose(0, 2, 3, 1), order="C"))
+        return InteractionOperator(self.core_energy, one, 0.5 * two)
+
+    def summary(self) -> str:
+        """Plain-text description: molecule, active space, sizes, reference and HF energy."""
+        ref = self.reference
+        return "\n".join([
+            repr(self.molecule),
+            f"SCF: {self.scf.method} {self.scf_energy:.10f} Ha",
+            f"active space: {self.active_orbitals}",
+            f"qubits (spin orbitals): {self.n_qubits}; determinants (N, Sz): {self.n_determinants:,}",
+            f"exact reference: {ref.energy:.10f} Ha, multiplicity {ref.multiplicity}, <S^2> = {ref.spin_square:.6f}",
+        ])
+
+    def __repr__(self) -> str:
+        return (f"Problem({self.molecule.formula}, {self.active_orbitals.n_electrons}e/{self.n_orbitals}o, "
+                f"{self.n_qubits} qubits, multiplicity={self.multiplicity})")
+
+
+def determinant_energy(h1, h2, core_energy: float, alpha_occ, beta_occ) -> float:
+    """Energy (Ha) of one determinant from active-space integrals (Slater–Condon rules)."""
+    a, b = list(alpha_occ), list(beta_occ)
+    energy = core_energy + sum(h1[i, i] for i in a) + sum(h1[i, i] for i in b)
+    for occ in (a, b):
+        for i in occ:
+            for j in occ:
+                energy += 0.5 * (h2[i, i, j, j] - h2[i, j, j, i])
+    for i in a:
+        for j in b:
+            energy += h2[i, i, j, j]
+    return float(energy)
+
+
+_PROBLEM_CACHE: OrderedDict[tuple, Problem] = OrderedDict()
+
+
+def build_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> Problem:
+    """The shared Problem for this molecule and active space (cached)."""
+    key = (molecule, active_space if active_space is not None else ActiveSpace())
+    problem = _PROBLEM_CACHE.get(key)
+    if problem is None:
+        problem = Problem(molecule, key[1])
+        _PROBLEM_CACHE[key] = problem
+        while len(_PROBLEM_CACHE) > PROBLEM_CACHE_SIZE:
+            _PROBLEM_CACHE.popitem(last=False)
+    else:
+        _PROBLEM_CACHE.move_to_end(key)
+    return problem

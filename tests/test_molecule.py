@@ -1,0 +1,99 @@
+import math
+
+import pytest
+
+import groundkit as gk
+from groundkit.molecule import BOHR_PER_ANGSTROM
+
+
+def test_value_object_equality_hash_and_repr():
+    a = gk.MoleculeSpec(symbols=("h", "H"), coordinates=((0, 0, 0), (0, 0, 0.74)))
+    b = gk.MoleculeSpec(symbols=["H", "H"], coordinates=[[0, 0, 0], [0, 0, 0.74]], name="other name")
+    assert a == b and hash(a) == hash(b)  # name is a label, not part of the physics
+    assert a.symbols == ("H", "H")
+    assert "H2" in repr(a) and "sto-3g" in repr(a)
+    with pytest.raises(AttributeError):
+        a.charge = 1  # frozen
+
+
+def test_electron_count_and_multiplicity():
+    oh = gk.MoleculeSpec(symbols=("O", "H"), coordinates=((0, 0, 0), (0, 0, 0.97)), multiplicity=2)
+    assert oh.n_electrons == 9
+    oh_minus = gk.MoleculeSpec(symbols=("O", "H"), coordinates=((0, 0, 0), (0, 0, 0.97)), charge=-1)
+    assert oh_minus.n_electrons == 10
+
+
+def test_from_xyz_with_and_without_header(tmp_path):
+    body = "O 0 0 0\nH 0 0.757 0.587\nH 0 -0.757 0.587\n"
+    with_header = gk.MoleculeSpec.from_xyz("3\nwater test\n" + body)
+    bare = gk.MoleculeSpec.from_xyz(body)
+    assert with_header == bare
+    assert with_header.name == "water test"
+    path = tmp_path / "w.xyz"
+    path.write_text("3\nfrom file\n" + body)
+    assert gk.MoleculeSpec.from_xyz(path) == bare
+    assert gk.MoleculeSpec.from_xyz(str(path)).name == "from file"
+    assert gk.MoleculeSpec.from_xyz(bare.to_xyz()) == bare
+
+
+def test_bohr_and_with_coordinates():
+    h2 = gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 1.4)), unit="bohr")
+    assert math.isclose(h2.distance(0, 1), 1.4 / BOHR_PER_ANGSTROM)
+    moved = h2.with_coordinates([(0, 0, 0), (0, 0, 0.9)], unit="angstrom")
+    assert moved.unit == "angstrom" and math.isclose(moved.distance(0, 1), 0.9)
+    assert h2.coordinates[1][2] == 1.4  # the original is untouched
+
+
+def test_pipeline_shortcut():
+    mol = gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.74)))
+    assert isinstance(mol.pipeline(), gk.Pipeline)
+
+
+# bad input: each row of the list -----------------------------------------------------------------------
+def test_unknown_element_is_named():
+    with pytest.raises(gk.ElementError, match="'Xx'"):
+        gk.MoleculeSpec(symbols=("Xx", "H"), coordinates=((0, 0, 0), (0, 0, 1)))
+
+
+@pytest.mark.parametrize("coords", [((0, 0, 0),), ((0, 0, 0), (0, 0)), ((0, 0, 0), (0, 0, float("nan"))),
+                                    ((0, 0, 0), (0, float("inf"), 1)), ((0, 0, 0), ("a", 0, 1))])
+def test_bad_coordinates(coords):
+    with pytest.raises(gk.GeometryError):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=coords)
+
+
+def test_atoms_too_close():
+    with pytest.raises(gk.GeometryError, match="0.0500 Å apart"):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.05)))
+
+
+@pytest.mark.parametrize("charge", [2, 3])
+def test_charge_leaving_no_or_negative_electrons(charge):
+    with pytest.raises(gk.ChargeError, match=f"charge {charge}"):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.74)), charge=charge)
+
+
+@pytest.mark.parametrize("multiplicity", [0, -1, 2, 4])
+def test_multiplicity_below_one_or_wrong_parity(multiplicity):
+    with pytest.raises(gk.MultiplicityError, match=f"multiplicity {multiplicity}"):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.74)), multiplicity=multiplicity)
+
+
+def test_unknown_basis_says_how_to_find_valid_ones():
+    with pytest.raises(gk.BasisError, match="pyscf.gto.basis.ALIAS"):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.74)), basis="not-a-basis")
+
+
+@pytest.mark.parametrize("text, line", [
+    ("2\ncomment\nH 0 0 0\nH 0 0\n", 4),
+    ("H 0 0 0\nH 0 zero 0.7\n", 2),
+    ("2\n\nH 0 0 0\nQq 0 0 0.7\n", 4),
+    ("3\ncomment\nH 0 0 0\nH 0 0 0.7\n", 1),
+])
+def test_malformed_xyz_names_the_line(text, line):
+    with pytest.raises(gk.XYZFormatError, match=f"line {line}"):
+        gk.MoleculeSpec.from_xyz(text)
+
+
+def test_errors_are_value_errors():
+    assert issubclass(gk.XYZFormatError, ValueError) and issubclass(gk.ActiveSpaceError, ValueError)
