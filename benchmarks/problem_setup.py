@@ -44,7 +44,7 @@ def main() -> None:
         t0 = time.perf_counter()
         problem = gk.Problem(molecule, space)
         t1 = time.perf_counter()
-        problem.reference
+        _ = problem.reference
         t2 = time.perf_counter()
         for method in ("mp2", "cisd", "ccsd", "ccsd(t)"):
             problem.baselines[method]
