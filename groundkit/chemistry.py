@@ -252,12 +252,7 @@ def _dense_lowest_states(h1, h2, core_energy, n_alpha, n_beta, target, n_states)
     norb = h1.shape[0]
     shape = (_binom(norb, n_alpha), _binom(norb, n_beta))
     dim = shape[0] * shape[1]
-    h2e = fci.direct_spin1.absorb_h1e(h1, h2, norb, (n_alpha, n_beta), 0.5)
-    hmat = np.empty((dim, dim))
-    for k in range(dim):
-        unit = np.zeros(dim)
-        unit[k] = 1.0
-        hmat[:, k] = fci.direct_spin1.contract_2e(h2e, unit.reshape(shape), norb, (n_alpha, n_beta)).ravel()
+    _, hmat = fci.direct_spin1.pspace(h1, h2, norb, (n_alpha, n_beta), np=dim)  # every determinant, in order
     hmat = 0.5 * (hmat + hmat.T)
     s2 = np.empty((dim, dim))
     for k in range(dim):

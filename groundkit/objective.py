@@ -1,0 +1,128 @@
+"""Energy of a fermionic trial state as a function of its parameters, computed in the determinant space.
+
+``Objective(problem, trial_state)`` builds, once, the sector of the problem's electron numbers, the excitation
+tables of the trial state, the Hamiltonian contraction and the reference determinant, and reuses them in every
+call. Energies are in Hartree and include ``problem.core_energy``; parameters are angles in radians.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from groundkit.errors import ComponentError, ParameterError
+from groundkit.sector.adjoint import energy_and_angle_gradient
+from groundkit.sector.exponential import apply_product
+from groundkit.sector.hamiltonian import SectorHamiltonian
+from groundkit.sector.space import MAX_DETERMINANTS, Sector
+from groundkit.sector.spin import spin_square
+from groundkit.sector.steps import Steps
+from groundkit.sector.tables import excitation_tables
+from groundkit.trial_states.base import ExcitationPlan, TrialState
+
+
+class Objective:
+    """E(theta) = <psi(theta)|H|psi(theta)> for a fermionic trial state on a problem (duck-typed).
+
+    The problem needs ``n_orbitals``, ``n_alpha``, ``n_beta``, ``h1``, ``h2`` (chemists' notation, Hartree) and
+    ``core_energy`` (Hartree).
+    """
+
+    def __init__(self, problem: Any, trial_state: TrialState, *, max_determinants: int = MAX_DETERMINANTS):
+        if not isinstance(trial_state, TrialState):
+            raise ComponentError(
+                f"trial state {trial_state!r} is not a fermionic TrialState; use UCCSD(), PUCCD(), UpCCGSD(k=...), "
+                f"ExcitationList([...]), HartreeFock() or a TrialState subclass"
+            )
+        self.problem = problem
+        self.trial_state = trial_state
+        self.sector = Sector(problem.n_orbitals, problem.n_alpha, problem.n_beta, max_determinants)
+        self.plan: ExcitationPlan = trial_state.plan(problem)
+        self.tables = excitation_tables(self.plan.excitations, self.sector.alpha_strings, self.sector.beta_strings)
+        self.steps = Steps(self.tables, self.sector.shape)
+        self.hamiltonian = SectorHamiltonian(
+            problem.h1, problem.h2, problem.n_alpha, problem.n_beta, float(problem.core_energy)
+        )
+        self.reference_state = self.sector.determinant(*self.plan.reference)
+        self._initial: np.ndarray | None = None
+
+    def __repr__(self) -> str:
+        return (
+            f"Objective({self.trial_state!r}, {self.n_parameters} parameters, {len(self.tables)} excitations, "
+            f"{self.sector.size:,} determinants)"
+        )
+
+    @property
+    def n_parameters(self) -> int:
+        """Length of the parameter vector."""
+        return self.plan.n_parameters
+
+    @property
+    def parameter_labels(self) -> tuple[str, ...]:
+        """Readable name of each parameter (the first excitation it drives)."""
+        return self.plan.labels
+
+    def initial_parameters(self) -> np.ndarray:
+        """The trial state's starting parameters (radians; a new array each call)."""
+        if self._initial is None:
+            self._initial = self.trial_state.checked_initial_parameters(self.problem, self.plan)
+        return self._initial.copy()
+
+    def check_parameters(self, theta: Any) -> np.ndarray:
+        """``theta`` as a float array of length :attr:`n_parameters`, or :class:`ParameterError`."""
+        try:
+            values = np.asarray(theta, dtype=float)
+        except (TypeError, ValueError):
+            raise ParameterError(
+                f"parameters {theta!r} are not numbers; expected {self.n_parameters} finite values"
+            ) from None
+        if values.ndim != 1 or values.size != self.n_parameters:
+            raise ParameterError(
+                f"parameter vector has shape {values.shape}; expected {self.n_parameters} values (one per "
+                f"parameter of {self.trial_state!r})"
+            )
+        bad = np.flatnonzero(~np.isfinite(values))
+        if bad.size:
+            raise ParameterError(
+                f"parameter {int(bad[0])} is {float(values[bad[0]])!r}; expected {self.n_parameters} finite values"
+            )
+        return values
+
+    def state(self, theta: Any) -> np.ndarray:
+        """CI array psi(theta), shape (alpha strings, beta strings), PySCF's determinant order and signs."""
+        angles = self.plan.angles(self.check_parameters(theta))
+        return apply_product(self.reference_state, self.steps, angles)
+
+    def energy(self, theta: Any) -> float:
+        """E(theta) in Hartree."""
+        return self.hamiltonian.energy(self.state(theta))
+
+    def energy_and_gradient(self, theta: Any) -> tuple[float, np.ndarray]:
+        """(E(theta), dE/dtheta) in Hartree and Hartree per radian, by one adjoint sweep."""
+        angles = self.plan.angles(self.check_parameters(theta))
+        energy, angle_gradient = energy_and_angle_gradient(
+            self.reference_state, self.steps, angles, self.hamiltonian.apply
+        )
+        return energy + self.hamiltonian.core_energy, self.plan.parameter_gradient(angle_gradient)
+
+    def estimate(self, theta: Any) -> tuple[float, float]:
+        """(E(theta), standard error) in Hartree; the determinant-space energy is exact, so the error is 0."""
+        return self.energy(theta), 0.0
+
+    def spin_square(self, theta: Any) -> float:
+        """<S^2> of psi(theta)."""
+        return spin_square(self.state(theta), self.sector.n_orbitals, self.sector.n_alpha, self.sector.n_beta)
+
+    def amplitudes(self, theta: Any, threshold: float = 1e-8) -> dict[str, float]:
+        """Determinant label -> amplitude, largest |amplitude| first, omitting |amplitude| < ``threshold``.
+
+        Amplitudes carry OpenFermion's interleaved sign convention (basis state (a+_0)^n0 (a+_1)^n1 ... |vac>), so
+        they agree with the Jordan-Wigner statevector entry of the same determinant.
+        """
+        ci = self.state(theta) * self.sector.interleaved_signs()
+        flat = ci.ravel()
+        keep = np.flatnonzero(np.abs(flat) >= threshold)
+        keep = keep[np.argsort(-np.abs(flat[keep]), kind="stable")]
+        n_beta_strings = self.sector.shape[1]
+        return {self.sector.label(int(k) // n_beta_strings, int(k) % n_beta_strings): float(flat[k]) for k in keep}
