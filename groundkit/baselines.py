@@ -18,7 +18,7 @@ from .errors import GroundkitError
 if TYPE_CHECKING:  # pragma: no cover
     from .problem import Problem
 
-FCI_DETERMINANT_LIMIT = 2_000_000  # full-space FCI only up to this many determinants (memory ~ 10 vectors)
+FCI_DETERMINANT_LIMIT = 1_000_000  # full-space FCI only up to this many determinants (a minute or so here)
 METHODS = ("hf", "mp2", "cisd", "ccsd", "ccsd(t)", "casci", "fci")
 SPACE = {"hf": "full", "mp2": "active", "cisd": "active", "ccsd": "active", "ccsd(t)": "active",
          "casci": "active", "fci": "full"}

@@ -61,3 +61,7 @@ class ComponentError(GroundkitError):
 
 class DegenerateBoundaryWarning(UserWarning):
     """An active-space boundary that cuts through a set of degenerate orbitals."""
+
+
+class ResultFileError(GroundkitError):
+    """A result file that is truncated, of another schema or version, or not a groundkit result."""

@@ -1,27 +1,43 @@
 """Pipeline: a fluent, immutable chain of components from a molecule to a result.
 
-Every chaining call returns a new Pipeline; the old one is untouched. Computed work lives in shared Problem
-objects (see :func:`groundkit.problem.build_problem`), so pipelines that differ only downstream share it.
+Every chaining call returns a new Pipeline; the old one is untouched. Computed work lives in shared Problem and
+objective objects, so pipelines that differ only downstream (minimiser, estimator) share them, and pipelines that
+differ in the trial state still share the chemistry.
 """
 
 from __future__ import annotations
 
+from collections import OrderedDict
+from collections.abc import Callable
 from dataclasses import dataclass, replace
+from typing import Any
 
+from . import components as _c
 from .active_space import ActiveSpace
 from .errors import ComponentError
+from .estimators import Estimator, ExactEstimator
+from .mapping import QubitMapping
 from .molecule import MoleculeSpec
 from .problem import Problem, build_problem
+
+OBJECTIVE_CACHE_SIZE = 32
 
 
 @dataclass(frozen=True)
 class _Components:
     molecule: MoleculeSpec | None = None
     active_space: ActiveSpace | None = None
+    mapping: QubitMapping | None = None
+    trial_state: Any = None
+    estimator: Estimator | None = None
+    minimiser: Any = None
 
 
 class Pipeline:
-    """``Pipeline(molecule)`` or ``molecule.pipeline()``; ``Pipeline()`` holds components without a molecule."""
+    """``Pipeline(molecule)`` or ``molecule.pipeline()``; ``Pipeline()`` holds components without a molecule.
+
+    Defaults where a component is not given: full space, Jordan–Wigner, UCCSD, exact estimator, BFGS.
+    """
 
     __slots__ = ("_components",)
 
@@ -30,7 +46,7 @@ class Pipeline:
             raise ComponentError(f"Pipeline takes a MoleculeSpec or nothing, got {type(molecule).__name__}")
         self._components = _Components(molecule=molecule)
 
-    def _with(self, **changes) -> Pipeline:
+    def _with(self, **changes: Any) -> Pipeline:
         new = Pipeline.__new__(Pipeline)
         new._components = replace(self._components, **changes)
         return new
@@ -42,7 +58,7 @@ class Pipeline:
             raise ComponentError(f"molecule must be a MoleculeSpec, got {type(molecule).__name__}")
         return self._with(molecule=molecule)
 
-    def active_space(self, space: ActiveSpace | None = None, **options) -> Pipeline:
+    def active_space(self, space: ActiveSpace | None = None, **options: Any) -> Pipeline:
         """Choose the active space: an :class:`ActiveSpace`, or its options (``electrons=2, orbitals=3``)."""
         if space is None:
             space = ActiveSpace(**options)
@@ -52,12 +68,39 @@ class Pipeline:
             raise ComponentError(f"active_space takes an ActiveSpace, got {space!r}")
         return self._with(active_space=space)
 
+    def mapping(self, mapping: QubitMapping | str, **options: Any) -> Pipeline:
+        """Choose the fermion-to-qubit mapping: a :class:`QubitMapping` or a name (``"parity"``)."""
+        return self._with(mapping=_c.as_mapping(mapping, **options))
+
+    def trial_state(self, trial_state: Any, **options: Any) -> Pipeline:
+        """Choose the trial state: an instance (``gk.UCCSD()``) or a name with options (``"upccgsd", k=2``)."""
+        return self._with(trial_state=_c.as_trial_state(trial_state, **options))
+
+    def estimator(self, estimator: Estimator | str, **options: Any) -> Pipeline:
+        """Choose how energies are estimated: an :class:`Estimator` or a name (``"exact"``)."""
+        return self._with(estimator=_c.as_estimator(estimator, **options))
+
+    def minimiser(self, minimiser: Any, **options: Any) -> Pipeline:
+        """Choose the minimiser: an instance (``gk.COBYLA()``) or a name with options (``"adam", step=0.1``)."""
+        return self._with(minimiser=_c.as_minimiser(minimiser, **options))
+
     # components and computed objects ------------------------------------------------------------------------
     @property
-    def components(self) -> dict:
+    def components(self) -> dict[str, Any]:
         """The configured components by role (None where the default applies)."""
         c = self._components
-        return {"molecule": c.molecule, "active_space": c.active_space}
+        return {"molecule": c.molecule, "active_space": c.active_space, "mapping": c.mapping,
+                "trial_state": c.trial_state, "estimator": c.estimator, "minimiser": c.minimiser}
+
+    def resolved_components(self) -> dict[str, Any]:
+        """The components with every default filled in."""
+        from .minimisers import BFGS
+        from .trial_states import UCCSD
+
+        c = self._components
+        return {"molecule": c.molecule, "active_space": c.active_space or ActiveSpace(),
+                "mapping": c.mapping or QubitMapping(), "trial_state": c.trial_state or UCCSD(),
+                "estimator": c.estimator or ExactEstimator(), "minimiser": c.minimiser or BFGS()}
 
     def problem(self) -> Problem:
         """The active-space problem with its exact reference and baselines (shared, computed once)."""
@@ -66,8 +109,51 @@ class Pipeline:
             raise ComponentError("this pipeline has no molecule yet; use Pipeline(molecule) or .molecule(spec)")
         return build_problem(molecule, self._components.active_space)
 
+    def objective(self) -> Any:
+        """E(θ) and ∇E(θ) of the trial state on the problem (shared between pipelines with equal choices)."""
+        from .objective import Objective
+
+        problem = self.problem()
+        trial_state = self.resolved_components()["trial_state"]
+        key = (id(problem), trial_state)
+        try:
+            cached = _OBJECTIVES.get(key)
+        except TypeError:  # an unhashable user trial state: build afresh
+            return Objective(problem, trial_state)
+        if cached is None or cached.problem is not problem:
+            cached = Objective(problem, trial_state)
+            _OBJECTIVES[key] = cached
+            while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
+                _OBJECTIVES.popitem(last=False)
+        return cached
+
+    def run(self, callback: Callable[[Any], None] | None = None) -> Any:
+        """Minimise the energy; returns a :class:`~groundkit.result.RunResult`.
+
+        ``callback(record)`` is called once per iteration with the minimiser's iteration record. Ctrl-C (or a
+        KeyboardInterrupt raised by the callback) ends the run early with a partial, not-converged result.
+        """
+        from .runner import run_pipeline
+
+        return run_pipeline(self, callback)
+
+    def configuration(self) -> dict[str, str]:
+        """Readable description of every resolved component (used in provenance and summaries)."""
+        resolved = self.resolved_components()
+        out = {role: repr(c) for role, c in resolved.items()}
+        if resolved["molecule"] is not None:
+            out["geometry_xyz"] = resolved["molecule"].to_xyz()
+        return out
+
     def __repr__(self) -> str:
-        c = self._components
-        mol = "no molecule" if c.molecule is None else repr(c.molecule)
-        space = repr(c.active_space or ActiveSpace())
-        return f"Pipeline({mol}\n  .active_space({space}))"
+        chosen = self.components
+        resolved = self.resolved_components()
+        mol = "no molecule" if chosen["molecule"] is None else repr(chosen["molecule"])
+        lines = [f"Pipeline({mol})"]
+        for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser"):
+            note = "" if chosen[role] is not None else "  # default"
+            lines.append(f"  .{role}({resolved[role]!r}){note}")
+        return "\n".join(lines)
+
+
+_OBJECTIVES: OrderedDict[tuple, Any] = OrderedDict()

@@ -1,0 +1,57 @@
+"""Shorthand names for components: ``.mapping("parity")``, ``.trial_state("uccsd")``, ``.minimiser("cobyla")``."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from typing import Any
+
+from .errors import ComponentError
+from .estimators import Estimator, ExactEstimator
+from .mapping import QubitMapping
+
+
+def _component(role: str, value: Any, kind: type, build: Callable[..., Any], options: dict[str, Any]) -> Any:
+    """``value`` itself when it is a ``kind`` instance; ``build(name, **options)`` when it is a name."""
+    if isinstance(value, kind):
+        if options:
+            raise ComponentError(f"give a {role} object or a {role} name with options, not both")
+        return value
+    if isinstance(value, str):
+        return build(value, **options)
+    raise ComponentError(f"{role} {value!r} is neither a {kind.__name__} nor a {role} name")
+
+
+def _from_table(role: str, table: dict[str, Any]) -> Callable[..., Any]:
+    def build(name: str, **options: Any) -> Any:
+        key = name.strip().lower()
+        if key not in table:
+            raise ComponentError(f"unknown {role} {name!r}; accepted: {', '.join(sorted(table))}")
+        return table[key](**options)
+
+    return build
+
+
+def as_mapping(value: Any, **options: Any) -> QubitMapping:
+    """A QubitMapping from an instance or a name ('jordan-wigner', 'bravyi-kitaev', 'parity')."""
+    return _component("mapping", value, QubitMapping, QubitMapping, options)
+
+
+def as_trial_state(value: Any, **options: Any) -> Any:
+    """A trial state from an instance or a name ('uccsd', 'puccd', 'upccgsd', 'hartree-fock')."""
+    from .trial_states import PUCCD, UCCSD, HartreeFock, TrialState, UpCCGSD
+
+    table = {"uccsd": UCCSD, "puccd": PUCCD, "upccgsd": UpCCGSD, "k-upccgsd": UpCCGSD, "hf": HartreeFock,
+             "hartree-fock": HartreeFock}
+    return _component("trial state", value, TrialState, _from_table("trial state", table), options)
+
+
+def as_estimator(value: Any, **options: Any) -> Estimator:
+    """An estimator from an instance or a name ('exact')."""
+    return _component("estimator", value, Estimator, _from_table("estimator", {"exact": ExactEstimator}), options)
+
+
+def as_minimiser(value: Any, **options: Any) -> Any:
+    """A minimiser from an instance or a name (see ``groundkit.minimisers.minimiser_from_name``)."""
+    from .minimisers import Minimiser, minimiser_from_name
+
+    return _component("minimiser", value, Minimiser, minimiser_from_name, options)

@@ -1,0 +1,179 @@
+"""Saving and loading results as JSON: a schema name and version, strict validation, atomic writes.
+
+Loading parses JSON and checks every field's type; it never executes anything (no pickle).
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+import tempfile
+from dataclasses import asdict
+from typing import Any
+
+import numpy as np
+
+from .errors import ResultFileError
+from .result import History, ReferenceRecord, Resources, RunResult
+
+SCHEMA = "groundkit.run-result"
+VERSION = 1
+
+
+def result_to_dict(result: RunResult) -> dict[str, Any]:
+    """Plain JSON-ready dict of a RunResult, with schema name and version."""
+    return {
+        "schema": SCHEMA,
+        "version": VERSION,
+        "energy": float(result.energy),
+        "parameters": [float(x) for x in result.parameters],
+        "parameter_labels": list(result.parameter_labels),
+        "history": {k: list(v) for k, v in asdict(result.history).items()},
+        "converged": bool(result.converged),
+        "stop_reason": result.stop_reason,
+        "reference": asdict(result.reference),
+        "baselines": dict(result.baselines),
+        "amplitudes": dict(result.amplitudes),
+        "fidelity": float(result.fidelity),
+        "spin_square": float(result.spin_square),
+        "particle_number": float(result.particle_number),
+        "resources": asdict(result.resources),
+        "provenance": result.provenance,
+    }
+
+
+def save_result(result: RunResult, path: str | os.PathLike) -> None:
+    """Write ``result`` to ``path`` as JSON via a temporary file in the same folder and an atomic rename."""
+    text = json.dumps(result_to_dict(result), indent=1, allow_nan=False, default=_jsonable)
+    folder = os.path.dirname(os.path.abspath(path))
+    fd, tmp = tempfile.mkstemp(prefix=".groundkit-", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
+
+
+def load_result(path: str | os.PathLike) -> RunResult:
+    """Read a result saved by :meth:`RunResult.save`; ``ResultFileError`` for anything else."""
+    try:
+        with open(path, encoding="utf-8") as fh:
+            text = fh.read()
+    except UnicodeDecodeError:
+        raise ResultFileError(f"{path}: not a text file; expected a groundkit result (JSON)") from None
+    try:
+        data = json.loads(text)
+    except json.JSONDecodeError as err:
+        raise ResultFileError(
+            f"{path}: not valid JSON ({err.msg} at line {err.lineno}, column {err.colno}); the file may be "
+            "truncated. Expected a groundkit result saved by RunResult.save"
+        ) from None
+    return result_from_dict(data, source=str(path))
+
+
+def result_from_dict(data: Any, source: str = "data") -> RunResult:
+    """Validate and rebuild a RunResult from :func:`result_to_dict` output."""
+    if not isinstance(data, dict) or "schema" not in data:
+        raise ResultFileError(f"{source}: no 'schema' field; expected a groundkit result with schema {SCHEMA!r}")
+    if data["schema"] != SCHEMA:
+        raise ResultFileError(f"{source}: schema {data['schema']!r} is not {SCHEMA!r}")
+    if data.get("version") != VERSION:
+        raise ResultFileError(f"{source}: schema version {data.get('version')!r}; this groundkit reads {VERSION}")
+    v = _Validator(source)
+    history = v.obj(data, "history", dict)
+    reference = v.obj(data, "reference", dict)
+    resources = v.obj(data, "resources", dict)
+    return RunResult(
+        energy=v.number(data, "energy"),
+        parameters=np.array(v.numbers(data, "parameters"), dtype=float),
+        parameter_labels=tuple(v.strings(data, "parameter_labels")),
+        history=History(
+            energies=tuple(v.numbers(history, "energies")),
+            gradient_norms=tuple(v.numbers(history, "gradient_norms", nullable=True)),
+            wall_times=tuple(v.numbers(history, "wall_times")),
+            evaluations=tuple(int(x) for x in v.numbers(history, "evaluations")),
+        ),
+        converged=v.obj(data, "converged", bool),
+        stop_reason=v.obj(data, "stop_reason", str),
+        reference=ReferenceRecord(
+            energy=v.number(reference, "energy"),
+            multiplicity=int(v.number(reference, "multiplicity")),
+            spin_square=v.number(reference, "spin_square"),
+            amplitudes=v.number_map(reference, "amplitudes"),
+            method=v.obj(reference, "method", str),
+        ),
+        baselines=v.number_map(data, "baselines", nullable=True),
+        amplitudes=v.number_map(data, "amplitudes"),
+        fidelity=v.number(data, "fidelity"),
+        spin_square=v.number(data, "spin_square"),
+        particle_number=v.number(data, "particle_number"),
+        resources=Resources(**{k: (None if resources.get(k) is None else int(v.number(resources, k)))
+                               for k in ("qubits", "parameters", "pauli_terms", "measurement_groups",
+                                         "two_qubit_gates", "depth")}),
+        provenance=v.obj(data, "provenance", dict),
+    )
+
+
+class _Validator:
+    def __init__(self, source: str) -> None:
+        self.source = source
+
+    def fail(self, key: str, expected: str, value: Any) -> ResultFileError:
+        shown = repr(value)
+        shown = shown if len(shown) < 60 else shown[:57] + "..."
+        return ResultFileError(f"{self.source}: field {key!r} is {shown}; expected {expected}")
+
+    def obj(self, data: dict, key: str, kind: type) -> Any:
+        if key not in data:
+            raise ResultFileError(f"{self.source}: field {key!r} is missing; the file is not a complete result")
+        value = data[key]
+        if not isinstance(value, kind):
+            raise self.fail(key, kind.__name__, value)
+        return value
+
+    def number(self, data: dict, key: str) -> float:
+        value = data.get(key)
+        if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
+            raise self.fail(key, "a finite number", value)
+        return float(value)
+
+    def numbers(self, data: dict, key: str, nullable: bool = False) -> list:
+        values = self.obj(data, key, list)
+        out = []
+        for x in values:
+            if x is None and nullable:
+                out.append(None)
+            elif isinstance(x, bool) or not isinstance(x, (int, float)):
+                raise self.fail(key, "a list of numbers", values)
+            else:
+                out.append(x)
+        return out
+
+    def strings(self, data: dict, key: str) -> list[str]:
+        values = self.obj(data, key, list)
+        if not all(isinstance(x, str) for x in values):
+            raise self.fail(key, "a list of strings", values)
+        return values
+
+    def number_map(self, data: dict, key: str, nullable: bool = False) -> dict:
+        values = self.obj(data, key, dict)
+        for k, x in values.items():
+            if x is None and nullable:
+                continue
+            if isinstance(x, bool) or not isinstance(x, (int, float)):
+                raise self.fail(f"{key}.{k}", "a number", x)
+        return dict(values)
+
+
+def _jsonable(value: Any) -> Any:
+    if isinstance(value, np.generic):
+        return value.item()
+    if isinstance(value, np.ndarray):
+        return value.tolist()
+    return repr(value)

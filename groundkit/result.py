@@ -1,0 +1,140 @@
+"""RunResult: everything one minimisation produced, beside its exact reference, as plain data.
+
+A RunResult holds numbers, strings and arrays only (no live PySCF or engine objects), so it can be saved as JSON
+(:mod:`groundkit.persistence`) and rebuilt equal. Energies in Hartree; errors in reports in mHa.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field, fields
+from typing import Any
+
+import numpy as np
+
+CHEMICAL_ACCURACY = 1.6e-3  # Hartree (1 kcal/mol = 1.5936 mHa); common practice, no single source
+
+
+@dataclass(frozen=True)
+class History:
+    """Per-iteration record of a minimisation: energy (Ha), gradient norm (Ha/rad, None where unknown),
+    wall time of the iteration (s) and cumulative objective evaluations."""
+
+    energies: tuple[float, ...] = ()
+    gradient_norms: tuple[float | None, ...] = ()
+    wall_times: tuple[float, ...] = ()
+    evaluations: tuple[int, ...] = ()
+
+    def __len__(self) -> int:
+        return len(self.energies)
+
+    @property
+    def total_time(self) -> float:
+        """Seconds spent in all iterations."""
+        return float(sum(self.wall_times))
+
+
+@dataclass(frozen=True)
+class ReferenceRecord:
+    """The exact reference the result is measured against (same active space, N, Sz and S)."""
+
+    energy: float
+    multiplicity: int
+    spin_square: float
+    amplitudes: dict[str, float] = field(default_factory=dict)
+    method: str = ""
+
+
+@dataclass(frozen=True)
+class Resources:
+    """Quantum cost of the trial state. Fields not yet known are None."""
+
+    qubits: int
+    parameters: int
+    pauli_terms: int | None = None
+    measurement_groups: int | None = None
+    two_qubit_gates: int | None = None
+    depth: int | None = None
+
+
+@dataclass(frozen=True, eq=False)
+class RunResult:
+    """Outcome of ``Pipeline.run()``: the final energy beside the exact reference and the classical baselines."""
+
+    energy: float
+    parameters: np.ndarray
+    history: History
+    converged: bool
+    stop_reason: str
+    reference: ReferenceRecord
+    baselines: dict[str, float | None]
+    amplitudes: dict[str, float]
+    fidelity: float
+    spin_square: float
+    particle_number: float
+    resources: Resources
+    provenance: dict[str, Any]
+    parameter_labels: tuple[str, ...] = ()
+
+    @property
+    def error(self) -> float:
+        """energy − exact reference energy (Ha); positive for a variational state."""
+        return self.energy - self.reference.energy
+
+    @property
+    def within_chemical_accuracy(self) -> bool:
+        """|error| <= 1.6 mHa (chemical accuracy; common practice, no single source)."""
+        return abs(self.error) <= CHEMICAL_ACCURACY
+
+    @property
+    def iterations(self) -> int:
+        return len(self.history)
+
+    def summary(self) -> str:
+        """Plain-text table: energy, reference, error, verdict, baselines, state, resources, convergence."""
+        conf = self.provenance.get("configuration", {})
+        verdict = "within" if self.within_chemical_accuracy else "NOT within"
+        lines = [
+            f"{conf.get('molecule', 'molecule')}",
+            f"  active space   {conf.get('active_space', '')}",
+            f"  trial state    {conf.get('trial_state', '')}    minimiser {conf.get('minimiser', '')}",
+            "",
+            f"{'energy':<28}{self.energy:>18.10f} Ha",
+            f"{'exact reference':<28}{self.reference.energy:>18.10f} Ha  (multiplicity {self.reference.multiplicity})",
+            f"{'error':<28}{1000 * self.error:>18.4f} mHa  ({verdict} chemical accuracy, 1.6 mHa)",
+            f"{'fidelity with exact state':<28}{self.fidelity:>18.6f}",
+            f"{'<S^2> / <N>':<28}{self.spin_square:>18.6f} / {self.particle_number:.6f}",
+            "",
+            f"{'baseline':<28}{'energy/Ha':>18}  {'vs exact/mHa':>12}",
+        ]
+        for name, value in self.baselines.items():
+            if value is None:
+                lines.append(f"  {name:<26}{'—':>18}")
+            else:
+                lines.append(f"  {name:<26}{value:>18.10f}  {1000 * (value - self.reference.energy):>12.4f}")
+        r = self.resources
+        known = {f.name: getattr(r, f.name) for f in fields(r) if getattr(r, f.name) is not None}
+        lines += ["", "resources      " + ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in known.items())]
+        lines.append(f"minimisation   {self.iterations} iterations, {self.history.total_time:.2f} s, "
+                     f"{'converged' if self.converged else 'NOT converged'}: {self.stop_reason}")
+        return "\n".join(lines)
+
+    def to_dict(self) -> dict[str, Any]:
+        """JSON-ready dict (see :mod:`groundkit.persistence` for the schema)."""
+        from .persistence import result_to_dict
+
+        return result_to_dict(self)
+
+    def save(self, path: str) -> None:
+        """Write this result as JSON, atomically (a temporary file, then a rename)."""
+        from .persistence import save_result
+
+        save_result(self, path)
+
+    def __eq__(self, other: object) -> bool:
+        if not isinstance(other, RunResult):
+            return NotImplemented
+        return self.to_dict() == other.to_dict()
+
+    def __repr__(self) -> str:
+        return (f"RunResult(energy={self.energy:.10f} Ha, error={1000 * self.error:+.4f} mHa, "
+                f"converged={self.converged}, iterations={self.iterations}, parameters={len(self.parameters)})")

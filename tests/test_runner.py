@@ -1,0 +1,97 @@
+"""Pipeline.run end to end: every minimiser, interruption, immutability, shorthand and bad components."""
+
+import pytest
+
+import groundkit as gk
+
+from .conftest import diatomic
+
+
+@pytest.fixture(scope="module")
+def lih_small():
+    """LiH (2e, 4o): 8 qubits, the pi pair kept whole, correlated enough to need minimising."""
+    return diatomic("Li", "H", 1.5949).pipeline().active_space(electrons=2, orbitals=4)  # NIST CCCBDB r_e
+
+
+@pytest.mark.parametrize("minimiser", [
+    gk.BFGS(), gk.LBFGSB(), gk.COBYLA(), gk.NelderMead(max_iterations=4000), gk.GradientDescent(step=0.5),
+    gk.Adam(step=0.05, max_iterations=2000), gk.SPSA(seed=3, max_iterations=1500),
+])
+def test_every_minimiser_reaches_the_exact_reference(lih_small, minimiser):
+    result = lih_small.minimiser(minimiser).run()
+    reference = lih_small.problem().reference.energy  # PySCF FCI solver in the active space (reference library)
+    assert abs(result.energy - reference) <= 1.6e-3  # chemical accuracy (common practice, no single source)
+    assert result.energy >= reference - 1e-10  # variational principle
+    assert result.stop_reason
+
+
+def test_bfgs_converges_and_records_history(lih_small):
+    result = lih_small.run()
+    assert result.converged
+    assert len(result.history) == result.iterations > 0
+    assert result.history.energies[-1] == pytest.approx(result.energy, abs=1e-10)
+    assert all(g is not None for g in result.history.gradient_norms)
+    assert result.error == pytest.approx(0.0, abs=1e-6)  # UCCSD is exact for two electrons (textbook)
+
+
+def test_interrupt_from_callback_returns_partial_result(lih_small):
+    seen = []
+
+    def stop_after_two(record):
+        seen.append(record.iteration)
+        if len(seen) == 2:
+            raise KeyboardInterrupt
+
+    result = lih_small.minimiser(gk.GradientDescent(step=0.1, max_iterations=500)).run(callback=stop_after_two)
+    assert not result.converged
+    assert "interrupt" in result.stop_reason.lower()
+    assert len(result.history) >= 1
+    assert result.energy <= result.history.energies[0] + 1e-12
+
+
+def test_callback_once_per_iteration(lih_small):
+    calls = []
+    result = lih_small.minimiser(gk.COBYLA()).run(callback=lambda r: calls.append(r.iteration))
+    assert calls == list(range(1, len(calls) + 1))
+    assert len(calls) == len(result.history)
+
+
+def test_chaining_never_mutates(lih_small):
+    p = lih_small
+    q = p.mapping("parity")
+    assert p.components["mapping"] is None and q.components["mapping"] == gk.QubitMapping("parity")
+    r = q.trial_state(gk.PUCCD()).minimiser("cobyla")
+    assert q.components["trial_state"] is None and r.components["minimiser"] == gk.COBYLA()
+    assert "PUCCD" in repr(r) and "parity" in repr(r)
+
+
+def test_swapping_downstream_components_reuses_the_chemistry(lih_small):
+    a = lih_small.minimiser(gk.BFGS())
+    b = lih_small.minimiser(gk.COBYLA()).mapping("bravyi-kitaev")
+    assert a.problem() is b.problem()
+    assert a.objective() is b.objective()
+    assert lih_small.trial_state(gk.PUCCD()).problem() is a.problem()
+
+
+def test_hartree_fock_trial_state_has_nothing_to_minimise(lih_small):
+    result = lih_small.trial_state("hartree-fock").run()
+    assert result.converged and result.iterations == 0
+    assert result.energy == pytest.approx(result.baselines["hf"], abs=1e-8)  # PySCF SCF energy
+
+
+def test_unknown_component_names_list_the_accepted_ones(lih_small):
+    with pytest.raises(gk.ComponentError, match="jordan-wigner"):
+        lih_small.mapping("fancy-wigner")
+    with pytest.raises(gk.ComponentError, match="uccsd"):
+        lih_small.trial_state("ucc-everything")
+    with pytest.raises(gk.ComponentError, match="bfgs"):
+        lih_small.minimiser("newton-raphson")
+    with pytest.raises(gk.ComponentError, match="exact"):
+        lih_small.estimator("psychic")
+
+
+@pytest.mark.parametrize("make", [lambda: gk.GradientDescent(step=-0.1), lambda: gk.BFGS(max_iterations=0),
+                                  lambda: gk.Adam(step=0.0), lambda: gk.COBYLA(max_iterations=-3)])
+def test_options_out_of_range_are_refused_at_construction(make):
+    with pytest.raises(gk.ComponentError):
+        make()
