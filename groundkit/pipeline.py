@@ -127,15 +127,16 @@ class Pipeline:
                 _OBJECTIVES.popitem(last=False)
         return cached
 
-    def run(self, callback: Callable[[Any], None] | None = None) -> Any:
+    def run(self, callback: Callable[[Any], None] | None = None, *, initial_parameters: Any = None) -> Any:
         """Minimise the energy; returns a :class:`~groundkit.result.RunResult`.
 
         ``callback(record)`` is called once per iteration with the minimiser's iteration record. Ctrl-C (or a
         KeyboardInterrupt raised by the callback) ends the run early with a partial, not-converged result.
+        ``initial_parameters`` (radians) replaces the trial state's own start, e.g. for a warm start.
         """
         from .runner import run_pipeline
 
-        return run_pipeline(self, callback)
+        return run_pipeline(self, callback, initial_parameters=initial_parameters)
 
     def configuration(self) -> dict[str, str]:
         """Readable description of every resolved component (used in provenance and summaries)."""

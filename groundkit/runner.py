@@ -15,7 +15,9 @@ if TYPE_CHECKING:  # pragma: no cover
     from .pipeline import Pipeline
 
 
-def run_pipeline(pipeline: Pipeline, callback: Callable[[Any], None] | None = None) -> RunResult:
+def run_pipeline(
+    pipeline: Pipeline, callback: Callable[[Any], None] | None = None, *, initial_parameters: Any = None
+) -> RunResult:
     """Minimise the pipeline's objective with its minimiser and estimator; nothing computed is lost on Ctrl-C."""
     from .minimisers import MinimiserOutcome
 
@@ -23,7 +25,8 @@ def run_pipeline(pipeline: Pipeline, callback: Callable[[Any], None] | None = No
     problem = pipeline.problem()
     objective = pipeline.objective()
     estimator, minimiser = components["estimator"], components["minimiser"]
-    x0 = objective.initial_parameters()
+    x0 = objective.initial_parameters() if initial_parameters is None else objective.check_parameters(
+        initial_parameters)
 
     def energy(theta: np.ndarray) -> float:
         return estimator.energy(objective, theta)

@@ -95,3 +95,11 @@ def test_unknown_component_names_list_the_accepted_ones(lih_small):
 def test_options_out_of_range_are_refused_at_construction(make):
     with pytest.raises(gk.ComponentError):
         make()
+
+
+def test_initial_parameters_start_the_run_and_are_checked(lih_small):
+    converged = lih_small.run()
+    again = lih_small.run(initial_parameters=converged.parameters)
+    assert again.iterations <= 2 and again.energy == pytest.approx(converged.energy, abs=1e-9)
+    with pytest.raises(gk.ParameterError, match="expected"):
+        lih_small.run(initial_parameters=[0.0])
