@@ -22,6 +22,7 @@ from .errors import (
     ParameterError,
     ResultFileError,
     SizeLimitError,
+    SymmetryError,
     XYZFormatError,
 )
 from .estimators import Estimator, ExactEstimator
@@ -45,6 +46,7 @@ from .objective import Objective
 from .persistence import load_result
 from .pipeline import Pipeline
 from .problem import Problem, build_problem
+from .qubits import QubitEncoding, compare_mappings
 from .reference import ExactState, Reference
 from .result import CHEMICAL_ACCURACY, History, ReferenceRecord, Resources, RunResult
 from .trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, TrialState, UpCCGSD
@@ -52,13 +54,13 @@ from .trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, TrialState,
 __version__ = "0.1.0"
 
 __all__ = [
-    "BFGS", "CHEMICAL_ACCURACY", "COBYLA", "LBFGSB", "MINIMISER_NAMES", "PUCCD", "SPSA", "UCCSD", "ActiveSpace",
-    "ActiveSpaceError", "Adam", "BasisError", "Baselines", "ChargeError", "ComponentError", "ConvergenceError",
-    "DegenerateBoundaryWarning", "ElementError", "Estimator", "ExactEstimator", "ExactState", "ExcitationError",
-    "ExcitationList", "GeometryError", "GradientDescent", "GroundkitError", "HartreeFock", "History",
-    "IterationRecord", "Minimiser", "MinimiserOutcome", "MoleculeError", "MoleculeSpec", "MultiplicityError",
-    "NelderMead", "Objective", "ParameterError", "Pipeline", "Problem", "QubitMapping", "Reference",
-    "ReferenceRecord", "ResolvedActiveSpace", "Resources", "ResultFileError", "RunResult", "SizeLimitError",
-    "TrialState", "UpCCGSD", "XYZFormatError", "as_estimator", "as_mapping", "as_minimiser", "as_trial_state",
-    "build_problem", "load_result", "minimiser_from_name",
+    "ActiveSpace", "ActiveSpaceError", "Adam", "BFGS", "Baselines", "BasisError", "CHEMICAL_ACCURACY", "COBYLA",
+    "ChargeError", "ComponentError", "ConvergenceError", "DegenerateBoundaryWarning", "ElementError", "Estimator",
+    "ExactEstimator", "ExactState", "ExcitationError", "ExcitationList", "GeometryError", "GradientDescent",
+    "GroundkitError", "HartreeFock", "History", "IterationRecord", "LBFGSB", "MINIMISER_NAMES", "Minimiser",
+    "MinimiserOutcome", "MoleculeError", "MoleculeSpec", "MultiplicityError", "NelderMead", "Objective", "PUCCD",
+    "ParameterError", "Pipeline", "Problem", "QubitEncoding", "QubitMapping", "Reference", "ReferenceRecord",
+    "ResolvedActiveSpace", "Resources", "ResultFileError", "RunResult", "SPSA", "SizeLimitError", "SymmetryError",
+    "TrialState", "UCCSD", "UpCCGSD", "XYZFormatError", "as_estimator", "as_mapping", "as_minimiser",
+    "as_trial_state", "build_problem", "compare_mappings", "load_result", "minimiser_from_name",
 ]

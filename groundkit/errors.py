@@ -65,3 +65,7 @@ class DegenerateBoundaryWarning(UserWarning):
 
 class ResultFileError(GroundkitError):
     """A result file that is truncated, of another schema or version, or not a groundkit result."""
+
+
+class SymmetryError(GroundkitError):
+    """Tapering asked for where no Z2 symmetry is left, or an operator that breaks a tapered symmetry."""

@@ -127,6 +127,23 @@ class Pipeline:
                 _OBJECTIVES.popitem(last=False)
         return cached
 
+    def encoding(self) -> Any:
+        """The problem under the chosen mapping (tapered if asked): a shared :class:`QubitEncoding`."""
+        from .qubits import encoding_for
+
+        return encoding_for(self.problem(), self.resolved_components()["mapping"])
+
+    def qubit_hamiltonian(self) -> Any:
+        """The qubit Hamiltonian (``openfermion.QubitOperator``, Ha) under the mapping, tapered if asked."""
+        return self.encoding().hamiltonian
+
+    def pauli_statistics(self) -> Any:
+        """Pauli term count, largest weight, 1-norm and qubit-wise commuting groups of the qubit Hamiltonian."""
+        from .qubits import pauli_statistics
+
+        encoding = self.encoding()
+        return pauli_statistics(encoding.hamiltonian, encoding.n_qubits)
+
     def run(self, callback: Callable[[Any], None] | None = None, *, initial_parameters: Any = None) -> Any:
         """Minimise the energy; returns a :class:`~groundkit.result.RunResult`.
 
@@ -145,6 +162,33 @@ class Pipeline:
         if resolved["molecule"] is not None:
             out["geometry_xyz"] = resolved["molecule"].to_xyz()
         return out
+
+    def scan(
+        self, geometry: Callable[[float], MoleculeSpec], values: Any, *, checkpoint: str | None = None,
+        executor: Any = None, warm_start: bool | int = True, progress: bool = False,
+    ) -> Any:
+        """Run this pipeline at ``geometry(v)`` for each value; returns a :class:`~groundkit.studies.ScanResult`.
+
+        ``warm_start``: True (one chain, each point starts from the previous one's parameters after orbital
+        matching), an integer of parallel chains, or False. ``checkpoint``: a directory, one file per finished
+        point; rerunning skips them. ``executor``: None, 'processes', a concurrent.futures Executor or a
+        ``distributed.Client``. See docs/studies.md.
+        """
+        from .studies.scan import run_scan
+
+        return run_scan(self, geometry, values, checkpoint=checkpoint, executor=executor, warm_start=warm_start,
+                        progress=progress)
+
+    def optimise_geometry(
+        self, geometry: Callable[..., MoleculeSpec], initial: Any, *, bounds: Any = None, method: str = "powell",
+        tolerance: float = 1e-4, max_evaluations: int = 200, warm_start: bool = True,
+    ) -> Any:
+        """Minimise the energy over geometry parameters with SciPy; returns a
+        :class:`~groundkit.studies.GeometryOptimum` with the optimised geometry. See docs/studies.md."""
+        from .studies.geometry_optimisation import optimise_geometry
+
+        return optimise_geometry(self, geometry, initial, bounds=bounds, method=method, tolerance=tolerance,
+                                 max_evaluations=max_evaluations, warm_start=warm_start)
 
     def __repr__(self) -> str:
         chosen = self.components

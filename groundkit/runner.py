@@ -9,7 +9,8 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from .provenance import provenance
-from .result import History, ReferenceRecord, Resources, RunResult
+from .resources import resources_for
+from .result import History, ReferenceRecord, RunResult
 
 if TYPE_CHECKING:  # pragma: no cover
     from .pipeline import Pipeline
@@ -76,6 +77,6 @@ def build_result(pipeline: Pipeline, problem: Any, objective: Any, outcome: Any,
         fidelity=overlap * overlap / norm,
         spin_square=float(objective.spin_square(theta)),
         particle_number=float(problem.n_electrons) * norm,
-        resources=Resources(qubits=problem.n_qubits, parameters=int(objective.n_parameters)),
+        resources=resources_for(pipeline, objective, theta),
         provenance=provenance(pipeline.configuration(), components),
     )

@@ -1,0 +1,30 @@
+"""Quantum cost of a pipeline's trial state: qubits, parameters, Pauli terms, measurement groups, gates, depth."""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from .result import Resources
+
+
+def resources_for(pipeline: Any, objective: Any, theta: np.ndarray) -> Resources:
+    """Counts under the pipeline's mapping (after tapering); gate counts from the compiled circuit when available."""
+    encoding = pipeline.encoding()
+    stats = pipeline.pauli_statistics()
+    gates: dict[str, int | None] = {"two_qubit_gates": None, "depth": None}
+    try:
+        from .circuits import circuit_resources
+    except ImportError:  # the circuit compiler is optional for counting
+        circuit_resources = None
+    if circuit_resources is not None:
+        gates.update(circuit_resources(pipeline.circuit(theta)))
+    return Resources(
+        qubits=encoding.n_qubits,
+        parameters=int(objective.n_parameters),
+        pauli_terms=stats.pauli_terms,
+        measurement_groups=stats.measurement_groups,
+        two_qubit_gates=gates["two_qubit_gates"],
+        depth=gates["depth"],
+    )
