@@ -3,29 +3,59 @@
 Energies in Hartree; input coordinates in angstrom unless ``unit="bohr"``.
 """
 
+from . import adaptive, studies
 from .active_space import ActiveSpace, ResolvedActiveSpace
+from .adaptive import (
+    Adaptive,
+    ExcitationPool,
+    GeneralisedPool,
+    GrowthStep,
+    OperatorPool,
+    PauliStringPool,
+    QubitPool,
+    SinglesDoublesPool,
+    grown_sequence,
+    grown_trial_state,
+    growth_steps,
+    growth_table,
+)
 from .baselines import Baselines
+from .circuits import circuit_from_openqasm, circuit_resources, openqasm_text, trial_circuit
 from .components import as_estimator, as_mapping, as_minimiser, as_trial_state
 from .errors import (
     ActiveSpaceError,
+    AnalysisError,
     BasisError,
     ChargeError,
+    CheckpointError,
     ComponentError,
     ConvergenceError,
     DegenerateBoundaryWarning,
     ElementError,
     ExcitationError,
+    ExecutorError,
     GeometryError,
     GroundkitError,
     MoleculeError,
     MultiplicityError,
     ParameterError,
     ResultFileError,
+    ScanInputError,
     SizeLimitError,
+    StudyFileError,
     SymmetryError,
     XYZFormatError,
 )
-from .estimators import Estimator, ExactEstimator
+from .estimators import (
+    NOISY_QUBIT_LIMIT,
+    Estimator,
+    ExactEstimator,
+    Measurement,
+    NoisyEstimator,
+    SampledEstimator,
+    compare_measurements,
+    shot_budget,
+)
 from .mapping import QubitMapping
 from .minimisers import (
     BFGS,
@@ -46,21 +76,31 @@ from .objective import Objective
 from .persistence import load_result
 from .pipeline import Pipeline
 from .problem import Problem, build_problem
+from .qubit_states import CircuitTrialState, HardwareEfficient, PauliRotations, QubitObjective, QubitTrialState
 from .qubits import QubitEncoding, compare_mappings
 from .reference import ExactState, Reference
 from .result import CHEMICAL_ACCURACY, History, ReferenceRecord, Resources, RunResult
+from .studies import BondStretch, GeometryOptimum, ScanPoint, ScanResult, compare, load_scan
 from .trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, TrialState, UpCCGSD
+from .widgets import explore
 
 __version__ = "0.1.0"
 
 __all__ = [
-    "ActiveSpace", "ActiveSpaceError", "Adam", "BFGS", "Baselines", "BasisError", "CHEMICAL_ACCURACY", "COBYLA",
-    "ChargeError", "ComponentError", "ConvergenceError", "DegenerateBoundaryWarning", "ElementError", "Estimator",
-    "ExactEstimator", "ExactState", "ExcitationError", "ExcitationList", "GeometryError", "GradientDescent",
-    "GroundkitError", "HartreeFock", "History", "IterationRecord", "LBFGSB", "MINIMISER_NAMES", "Minimiser",
-    "MinimiserOutcome", "MoleculeError", "MoleculeSpec", "MultiplicityError", "NelderMead", "Objective", "PUCCD",
-    "ParameterError", "Pipeline", "Problem", "QubitEncoding", "QubitMapping", "Reference", "ReferenceRecord",
-    "ResolvedActiveSpace", "Resources", "ResultFileError", "RunResult", "SPSA", "SizeLimitError", "SymmetryError",
-    "TrialState", "UCCSD", "UpCCGSD", "XYZFormatError", "as_estimator", "as_mapping", "as_minimiser",
-    "as_trial_state", "build_problem", "compare_mappings", "load_result", "minimiser_from_name",
+    "ActiveSpace", "ActiveSpaceError", "Adam", "Adaptive", "AnalysisError", "BFGS", "Baselines", "BasisError",
+    "BondStretch", "CHEMICAL_ACCURACY", "COBYLA", "ChargeError", "CheckpointError", "CircuitTrialState",
+    "ComponentError", "ConvergenceError", "DegenerateBoundaryWarning", "ElementError", "Estimator", "ExactEstimator",
+    "ExactState", "ExcitationError", "ExcitationList", "ExcitationPool", "ExecutorError", "GeneralisedPool",
+    "GeometryError", "GeometryOptimum", "GradientDescent", "GroundkitError", "GrowthStep", "HardwareEfficient",
+    "HartreeFock", "History", "IterationRecord", "LBFGSB", "MINIMISER_NAMES", "Measurement", "Minimiser",
+    "MinimiserOutcome", "MoleculeError", "MoleculeSpec", "MultiplicityError", "NOISY_QUBIT_LIMIT", "NelderMead",
+    "NoisyEstimator", "Objective", "OperatorPool", "PUCCD", "ParameterError", "PauliRotations", "PauliStringPool",
+    "Pipeline", "Problem", "QubitEncoding", "QubitMapping", "QubitObjective", "QubitPool", "QubitTrialState",
+    "Reference", "ReferenceRecord", "ResolvedActiveSpace", "Resources", "ResultFileError", "RunResult", "SPSA",
+    "SampledEstimator", "ScanInputError", "ScanPoint", "ScanResult", "SinglesDoublesPool", "SizeLimitError",
+    "StudyFileError", "SymmetryError", "TrialState", "UCCSD", "UpCCGSD", "XYZFormatError", "adaptive", "as_estimator",
+    "as_mapping", "as_minimiser", "as_trial_state", "build_problem", "circuit_from_openqasm", "circuit_resources",
+    "compare", "compare_mappings", "compare_measurements", "explore", "grown_sequence", "grown_trial_state",
+    "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
+    "studies", "trial_circuit",
 ]

@@ -143,6 +143,8 @@ def solve_scf(spec: MoleculeSpec) -> ScfSolution:
     order = np.lexsort((np.asarray(mf.mo_energy), -np.asarray(mf.mo_occ)))
     if np.any(order != np.arange(order.size)):  # keep PySCF's own object consistent for the baselines
         mf.mo_energy, mf.mo_occ, mf.mo_coeff = mf.mo_energy[order], mf.mo_occ[order], mf.mo_coeff[:, order]
+    # eigen-solvers return either sign of each orbital; fix it so parameters compare between runs and processes
+    mf.mo_coeff = canonical_phases(mf.mo_coeff)
     solution = ScfSolution(
         method="RHF" if mol.spin == 0 else "ROHF",
         energy=float(mf.e_tot),
@@ -370,3 +372,32 @@ def _ccsd_solver(scf: ScfSolution, frozen_arg: list[int] | None) -> Any:
 def _require_converged(solver: Any, name: str) -> None:
     if not getattr(solver, "converged", True):
         raise ConvergenceError(f"{name} did not converge in {solver.max_cycle} iterations")
+
+
+# ---------------------------------------------------------------------------------------------------------------
+# studies: overlaps between geometries and isotope masses
+def cross_overlap(spec_a: MoleculeSpec, spec_b: MoleculeSpec) -> np.ndarray:
+    """AO overlap <mu(a)|nu(b)> between the basis functions of two geometries, shape (n_ao(a), n_ao(b)).
+
+    Both specs must have the same atoms and basis set, so that the AO lists correspond one to one.
+    """
+    from pyscf import gto
+
+    return np.asarray(gto.intor_cross("int1e_ovlp", build_mole(spec_a), build_mole(spec_b)), dtype=float)
+
+
+def most_abundant_isotope_mass(symbol: str) -> float:
+    """Mass (u) of the most abundant isotope of an element, from PySCF's table of common isotope masses."""
+    from pyscf.data import elements
+
+    return float(elements.COMMON_ISOTOPE_MASSES[elements.charge(symbol)])
+
+
+def canonical_phases(mo_coeff: np.ndarray) -> np.ndarray:
+    """``mo_coeff`` with each column's sign fixed: its largest coefficient (magnitudes rounded to 1e-8, the
+    first of equal ones) is positive. Eigen-solvers return either sign, and the choice can change with the
+    BLAS thread count; fixing it makes parameters comparable between processes."""
+    c = np.array(mo_coeff, dtype=float)
+    pivot = np.argmax(np.round(np.abs(c), 8), axis=0)
+    signs = np.where(c[pivot, np.arange(c.shape[1])] < 0, -1.0, 1.0)
+    return c * signs

@@ -10,7 +10,9 @@ from .estimators import Estimator, ExactEstimator
 from .mapping import QubitMapping
 
 
-def _component(role: str, value: Any, kind: type, build: Callable[..., Any], options: dict[str, Any]) -> Any:
+def _component(
+    role: str, value: Any, kind: type | tuple[type, ...], build: Callable[..., Any], options: dict[str, Any]
+) -> Any:
     """``value`` itself when it is a ``kind`` instance; ``build(name, **options)`` when it is a name."""
     if isinstance(value, kind):
         if options:
@@ -18,7 +20,8 @@ def _component(role: str, value: Any, kind: type, build: Callable[..., Any], opt
         return value
     if isinstance(value, str):
         return build(value, **options)
-    raise ComponentError(f"{role} {value!r} is neither a {kind.__name__} nor a {role} name")
+    kinds = " or ".join(k.__name__ for k in (kind if isinstance(kind, tuple) else (kind,)))
+    raise ComponentError(f"{role} {value!r} is neither a {kinds} nor a {role} name")
 
 
 def _from_table(role: str, table: dict[str, Any]) -> Callable[..., Any]:
@@ -37,17 +40,24 @@ def as_mapping(value: Any, **options: Any) -> QubitMapping:
 
 
 def as_trial_state(value: Any, **options: Any) -> Any:
-    """A trial state from an instance or a name ('uccsd', 'puccd', 'upccgsd', 'hartree-fock')."""
+    """A trial state from an instance or a name ('uccsd', 'puccd', 'upccgsd', 'hartree-fock', 'adaptive',
+    'hardware-efficient')."""
+    from .adaptive import Adaptive
+    from .qubit_states import HardwareEfficient, QubitTrialState
     from .trial_states import PUCCD, UCCSD, HartreeFock, TrialState, UpCCGSD
 
     table = {"uccsd": UCCSD, "puccd": PUCCD, "upccgsd": UpCCGSD, "k-upccgsd": UpCCGSD, "hf": HartreeFock,
-             "hartree-fock": HartreeFock}
-    return _component("trial state", value, TrialState, _from_table("trial state", table), options)
+             "hartree-fock": HartreeFock, "adaptive": Adaptive, "hardware-efficient": HardwareEfficient}
+    return _component("trial state", value, (TrialState, QubitTrialState), _from_table("trial state", table),
+                      options)
 
 
 def as_estimator(value: Any, **options: Any) -> Estimator:
-    """An estimator from an instance or a name ('exact')."""
-    return _component("estimator", value, Estimator, _from_table("estimator", {"exact": ExactEstimator}), options)
+    """An estimator from an instance or a name ('exact', 'sampled')."""
+    from .estimators import SampledEstimator
+
+    table = {"exact": ExactEstimator, "sampled": SampledEstimator}
+    return _component("estimator", value, Estimator, _from_table("estimator", table), options)
 
 
 def as_minimiser(value: Any, **options: Any) -> Any:

@@ -69,3 +69,23 @@ class ResultFileError(GroundkitError):
 
 class SymmetryError(GroundkitError):
     """Tapering asked for where no Z2 symmetry is left, or an operator that breaks a tapered symmetry."""
+
+
+class ScanInputError(GroundkitError):
+    """Scan values or a geometry function that cannot make a scan (empty, not numbers, not a MoleculeSpec)."""
+
+
+class CheckpointError(GroundkitError):
+    """A checkpoint directory of another configuration, or one whose files are not groundkit scan points."""
+
+
+class AnalysisError(GroundkitError):
+    """A scan that cannot give the asked analysis (too few points, minimum at an end, not a diatomic)."""
+
+
+class StudyFileError(GroundkitError):
+    """A TOML study file that is malformed or holds an unknown key; the message names the key and line."""
+
+
+class ExecutorError(GroundkitError):
+    """An executor that is neither None, 'serial', 'processes', a concurrent.futures Executor nor a Dask Client."""

@@ -140,6 +140,11 @@ class MoleculeSpec:
             lines.append(f"{s:<2} {x:14.8f} {y:14.8f} {z:14.8f}")
         return "\n".join(lines) + "\n"
 
+    def _repr_html_(self) -> str:
+        from .widgets.html import molecule_html
+
+        return molecule_html(self)
+
     def __repr__(self) -> str:
         label = f"{self.name!r}, " if self.name else ""
         charge = f", charge={self.charge:+d}" if self.charge else ""

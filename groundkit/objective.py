@@ -26,10 +26,12 @@ class Objective:
     """E(theta) = <psi(theta)|H|psi(theta)> for a fermionic trial state on a problem (duck-typed).
 
     The problem needs ``n_orbitals``, ``n_alpha``, ``n_beta``, ``h1``, ``h2`` (chemists' notation, Hartree) and
-    ``core_energy`` (Hartree).
+    ``core_energy`` (Hartree). ``plan`` replaces the trial state's own plan (e.g. restricted to a symmetry
+    sector by :func:`groundkit.qubits.sector_plan`).
     """
 
-    def __init__(self, problem: Any, trial_state: TrialState, *, max_determinants: int = MAX_DETERMINANTS):
+    def __init__(self, problem: Any, trial_state: TrialState, *, max_determinants: int = MAX_DETERMINANTS,
+                 plan: ExcitationPlan | None = None):
         if not isinstance(trial_state, TrialState):
             raise ComponentError(
                 f"trial state {trial_state!r} is not a fermionic TrialState; use UCCSD(), PUCCD(), UpCCGSD(k=...), "
@@ -38,7 +40,7 @@ class Objective:
         self.problem = problem
         self.trial_state = trial_state
         self.sector = Sector(problem.n_orbitals, problem.n_alpha, problem.n_beta, max_determinants)
-        self.plan: ExcitationPlan = trial_state.plan(problem)
+        self.plan: ExcitationPlan = trial_state.plan(problem) if plan is None else plan
         self.tables = excitation_tables(self.plan.excitations, self.sector.alpha_strings, self.sector.beta_strings)
         self.steps = Steps(self.tables, self.sector.shape)
         self.hamiltonian = SectorHamiltonian(

@@ -8,6 +8,7 @@ from __future__ import annotations
 import json
 import math
 import os
+import re
 import tempfile
 from dataclasses import asdict
 from typing import Any
@@ -27,6 +28,8 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
         "schema": SCHEMA,
         "version": VERSION,
         "energy": float(result.energy),
+        "standard_error": float(result.standard_error),
+        "exact_energy": None if result.exact_energy is None else float(result.exact_energy),
         "parameters": [float(x) for x in result.parameters],
         "parameter_labels": list(result.parameter_labels),
         "history": {k: list(v) for k, v in asdict(result.history).items()},
@@ -40,6 +43,7 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
         "particle_number": float(result.particle_number),
         "resources": asdict(result.resources),
         "provenance": result.provenance,
+        "growth": [dict(step) for step in result.growth],
     }
 
 
@@ -91,6 +95,8 @@ def result_from_dict(data: Any, source: str = "data") -> RunResult:
     resources = v.obj(data, "resources", dict)
     return RunResult(
         energy=v.number(data, "energy"),
+        standard_error=v.number(data, "standard_error"),
+        exact_energy=None if data.get("exact_energy") is None else v.number(data, "exact_energy"),
         parameters=np.array(v.numbers(data, "parameters"), dtype=float),
         parameter_labels=tuple(v.strings(data, "parameter_labels")),
         history=History(
@@ -117,6 +123,7 @@ def result_from_dict(data: Any, source: str = "data") -> RunResult:
                                for k in ("qubits", "parameters", "pauli_terms", "measurement_groups",
                                          "two_qubit_gates", "depth")}),
         provenance=v.obj(data, "provenance", dict),
+        growth=tuple(v.growth(data)) if "growth" in data else (),  # files written before adaptive runs have none
     )
 
 
@@ -155,6 +162,21 @@ class _Validator:
                 out.append(x)
         return out
 
+    def growth(self, data: dict) -> list[dict]:
+        """Growth records: objects whose values are numbers, strings, booleans or null, and whose ``operators`` is a
+        list of excitations ``[[creators], [annihilators]]`` or Pauli-string labels such as ``"X0 Y2 X3"``."""
+        steps = self.obj(data, "growth", list)
+        for k, step in enumerate(steps):
+            if not isinstance(step, dict):
+                raise self.fail(f"growth[{k}]", "an object", step)
+            for name, value in step.items():
+                if value is None or isinstance(value, (bool, int, float, str)):
+                    continue
+                if name == "operators" and isinstance(value, list) and all(_grown_operator(op) for op in value):
+                    continue
+                raise self.fail(f"growth[{k}].{name}", "a number, string, boolean, null or operator list", value)
+        return [dict(step) for step in steps]
+
     def strings(self, data: dict, key: str) -> list[str]:
         values = self.obj(data, key, list)
         if not all(isinstance(x, str) for x in values):
@@ -169,6 +191,17 @@ class _Validator:
             if isinstance(x, bool) or not isinstance(x, (int, float)):
                 raise self.fail(f"{key}.{k}", "a number", x)
         return dict(values)
+
+
+_PAULI_LABEL = re.compile(r"[XYZ]\d+( [XYZ]\d+)*")
+
+
+def _grown_operator(op: Any) -> bool:
+    """A growth record's operator: ``[[ints], [ints]]`` (an excitation) or a Pauli-string label ("X0 Y2 X3")."""
+    if isinstance(op, str):
+        return _PAULI_LABEL.fullmatch(op) is not None
+    return isinstance(op, list) and len(op) == 2 and all(
+        isinstance(part, list) and all(isinstance(i, int) and not isinstance(i, bool) for i in part) for part in op)
 
 
 def _jsonable(value: Any) -> Any:

@@ -115,13 +115,26 @@ class Pipeline:
 
         problem = self.problem()
         trial_state = self.resolved_components()["trial_state"]
-        key = (id(problem), trial_state)
+        if _is_qubit_trial_state(trial_state):
+            return self._qubit_objective(trial_state)
+        mapping = self.resolved_components()["mapping"]
+        # on a tapered register only symmetry-conserving excitations are kept (see qubits.symmetry)
+        tapered = mapping if mapping.taper else None
+
+        def build() -> Objective:
+            if tapered is None:
+                return Objective(problem, trial_state)
+            from .qubits import sector_plan
+
+            return Objective(problem, trial_state, plan=sector_plan(trial_state, self.encoding()))
+
+        key = (id(problem), trial_state, tapered)
         try:
             cached = _OBJECTIVES.get(key)
         except TypeError:  # an unhashable user trial state: build afresh
-            return Objective(problem, trial_state)
+            return build()
         if cached is None or cached.problem is not problem:
-            cached = Objective(problem, trial_state)
+            cached = build()
             _OBJECTIVES[key] = cached
             while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
                 _OBJECTIVES.popitem(last=False)
@@ -132,6 +145,30 @@ class Pipeline:
         from .qubits import encoding_for
 
         return encoding_for(self.problem(), self.resolved_components()["mapping"])
+
+    def _qubit_objective(self, trial_state: Any) -> Any:
+        """The shared QubitObjective of a qubit trial state under this pipeline's encoding."""
+        from .qubit_states import QubitObjective
+
+        encoding = self.encoding()
+        key = ("qubit", id(encoding), trial_state)
+        try:
+            cached = _OBJECTIVES.get(key)
+        except TypeError:  # an unhashable user trial state: build afresh
+            return QubitObjective(encoding, trial_state)
+        if cached is None or cached.encoding is not encoding:
+            cached = QubitObjective(encoding, trial_state)
+            _OBJECTIVES[key] = cached
+            while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
+                _OBJECTIVES.popitem(last=False)
+        return cached
+
+    def circuit(self, theta: Any = None) -> Any:
+        """A ``cirq.Circuit`` from |0…0⟩ on ``cirq.LineQubit.range(n)`` preparing the trial state at ``theta``
+        (radians; default the initial parameters) under the mapping; qubit k is index k of the qubit Hamiltonian."""
+        from .circuits import trial_circuit
+
+        return trial_circuit(self, theta)
 
     def qubit_hamiltonian(self) -> Any:
         """The qubit Hamiltonian (``openfermion.QubitOperator``, Ha) under the mapping, tapered if asked."""
@@ -144,13 +181,32 @@ class Pipeline:
         encoding = self.encoding()
         return pauli_statistics(encoding.hamiltonian, encoding.n_qubits)
 
-    def run(self, callback: Callable[[Any], None] | None = None, *, initial_parameters: Any = None) -> Any:
+    def measurement(self) -> Any:
+        """The pipeline's estimator bound to its objective: ``estimate(θ) -> (energy, standard error)``."""
+        return self.resolved_components()["estimator"].bind(self)
+
+    def shot_budget(self, precision: float = 1.6e-3, parameters: Any = None, grouping: str = "qwc",
+                    allocation: str = "variance") -> int:
+        """Total shots for one energy estimate with standard error ``precision`` (Ha) at ``parameters`` (default:
+        the trial state's start), from the exact group variances (see docs/measurement.md)."""
+        from .estimators import shot_budget
+
+        return shot_budget(self, precision, parameters, grouping, allocation)
+
+    def run(self, callback: Callable[[Any], None] | None = None, *, initial_parameters: Any = None,
+            live: bool = False, progress: bool = False) -> Any:
         """Minimise the energy; returns a :class:`~groundkit.result.RunResult`.
 
         ``callback(record)`` is called once per iteration with the minimiser's iteration record. Ctrl-C (or a
         KeyboardInterrupt raised by the callback) ends the run early with a partial, not-converged result.
         ``initial_parameters`` (radians) replaces the trial state's own start, e.g. for a warm start.
+        ``live=True`` displays a notebook view that follows the run and keeps its final figure;
+        ``progress=True`` shows a tqdm bar of iterations (see docs/notebook.md).
         """
+        if live or progress:
+            from .widgets.running import run_watched
+
+            return run_watched(self, callback, live=live, progress=progress, initial_parameters=initial_parameters)
         from .runner import run_pipeline
 
         return run_pipeline(self, callback, initial_parameters=initial_parameters)
@@ -180,8 +236,8 @@ class Pipeline:
                         progress=progress)
 
     def optimise_geometry(
-        self, geometry: Callable[..., MoleculeSpec], initial: Any, *, bounds: Any = None, method: str = "powell",
-        tolerance: float = 1e-4, max_evaluations: int = 200, warm_start: bool = True,
+        self, geometry: Callable[..., MoleculeSpec], initial: Any, *, bounds: Any = None,
+        method: str = "nelder-mead", tolerance: float = 1e-4, max_evaluations: int = 200, warm_start: bool = True,
     ) -> Any:
         """Minimise the energy over geometry parameters with SciPy; returns a
         :class:`~groundkit.studies.GeometryOptimum` with the optimised geometry. See docs/studies.md."""
@@ -202,3 +258,9 @@ class Pipeline:
 
 
 _OBJECTIVES: OrderedDict[tuple, Any] = OrderedDict()
+
+
+def _is_qubit_trial_state(trial_state: Any) -> bool:
+    from .qubit_states import QubitTrialState
+
+    return isinstance(trial_state, QubitTrialState)

@@ -136,6 +136,11 @@ class Problem:
             f"exact reference: {ref.energy:.10f} Ha, multiplicity {ref.multiplicity}, <S^2> = {ref.spin_square:.6f}",
         ])
 
+    def _repr_html_(self) -> str:
+        from .widgets.html import problem_html
+
+        return problem_html(self)
+
     def __repr__(self) -> str:
         return (f"Problem({self.molecule.formula}, {self.active_orbitals.n_electrons}e/{self.n_orbitals}o, "
                 f"{self.n_qubits} qubits, multiplicity={self.multiplicity})")

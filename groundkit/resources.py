@@ -10,16 +10,12 @@ from .result import Resources
 
 
 def resources_for(pipeline: Any, objective: Any, theta: np.ndarray) -> Resources:
-    """Counts under the pipeline's mapping (after tapering); gate counts from the compiled circuit when available."""
+    """Counts under the pipeline's mapping (after tapering); gate counts and depth from the compiled circuit."""
     encoding = pipeline.encoding()
     stats = pipeline.pauli_statistics()
-    gates: dict[str, int | None] = {"two_qubit_gates": None, "depth": None}
-    try:
-        from .circuits import circuit_resources
-    except ImportError:  # the circuit compiler is optional for counting
-        circuit_resources = None
-    if circuit_resources is not None:
-        gates.update(circuit_resources(pipeline.circuit(theta)))
+    from .circuits import circuit_resources
+
+    gates = circuit_resources(pipeline.circuit(theta))
     return Resources(
         qubits=encoding.n_qubits,
         parameters=int(objective.n_parameters),

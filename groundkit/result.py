@@ -74,6 +74,12 @@ class RunResult:
     resources: Resources
     provenance: dict[str, Any]
     parameter_labels: tuple[str, ...] = ()
+    standard_error: float = 0.0
+    """Standard error (Ha) of ``energy``; zero for exact estimators."""
+    exact_energy: float | None = None
+    """Exact energy (Ha) of the final parameters; equals ``energy`` for exact estimators."""
+    growth: tuple[dict[str, Any], ...] = ()
+    """Adaptive runs only: one plain-data record per growth step (see ``groundkit.adaptive.GrowthStep``)."""
 
     @property
     def error(self) -> float:
@@ -84,6 +90,21 @@ class RunResult:
     def within_chemical_accuracy(self) -> bool:
         """|error| <= 1.6 mHa (chemical accuracy; common practice, no single source)."""
         return abs(self.error) <= CHEMICAL_ACCURACY
+
+    @property
+    def estimator_bias(self) -> float | None:
+        """energy − exact energy of the same parameters (Ha): statistical error plus any noise bias."""
+        return None if self.exact_energy is None else self.energy - self.exact_energy
+
+    @property
+    def verdict(self) -> str:
+        """'within', 'outside' or 'uncertain': chemical accuracy judged at two standard errors."""
+        margin = 2.0 * self.standard_error
+        if abs(self.error) + margin <= CHEMICAL_ACCURACY:
+            return "within"
+        if abs(self.error) - margin > CHEMICAL_ACCURACY:
+            return "outside"
+        return "uncertain"
 
     @property
     def iterations(self) -> int:
@@ -101,6 +122,11 @@ class RunResult:
             f"{'energy':<28}{self.energy:>18.10f} Ha",
             f"{'exact reference':<28}{self.reference.energy:>18.10f} Ha  (multiplicity {self.reference.multiplicity})",
             f"{'error':<28}{1000 * self.error:>18.4f} mHa  ({verdict} chemical accuracy, 1.6 mHa)",
+            *([f"{'standard error':<28}{1000 * self.standard_error:>18.4f} mHa  (verdict at 2 sigma: "
+               f"{self.verdict})"] if self.standard_error else []),
+            *([f"{'exact energy, same params':<28}{self.exact_energy:>18.10f} Ha  (estimator bias "
+               f"{1000 * self.estimator_bias:+.4f} mHa)"]
+              if self.exact_energy is not None and abs(self.exact_energy - self.energy) > 1e-12 else []),
             f"{'fidelity with exact state':<28}{self.fidelity:>18.6f}",
             f"{'<S^2> / <N>':<28}{self.spin_square:>18.6f} / {self.particle_number:.6f}",
             "",
@@ -129,6 +155,23 @@ class RunResult:
         from .persistence import save_result
 
         save_result(self, path)
+
+    def show(self) -> Any:
+        """A notebook widget: energy by iteration beside the exact reference, and the leading determinants."""
+        from .widgets.live import RunView
+
+        return RunView.from_result(self)
+
+    def plot(self, path: str) -> str:
+        """Save energy by iteration and the leading determinants as a PNG at ``path``; returns the path."""
+        from .widgets.plotting import save_result_png
+
+        return save_result_png(self, path)
+
+    def _repr_html_(self) -> str:
+        from .widgets.html import result_html
+
+        return result_html(self)
 
     def __eq__(self, other: object) -> bool:
         if not isinstance(other, RunResult):

@@ -20,40 +20,50 @@ def run_pipeline(
     pipeline: Pipeline, callback: Callable[[Any], None] | None = None, *, initial_parameters: Any = None
 ) -> RunResult:
     """Minimise the pipeline's objective with its minimiser and estimator; nothing computed is lost on Ctrl-C."""
+    from .adaptive import Adaptive, run_adaptive
     from .minimisers import MinimiserOutcome
 
     components = pipeline.resolved_components()
+    if isinstance(components["trial_state"], Adaptive):  # grown during the run: no fixed objective
+        return run_adaptive(pipeline, callback, initial_parameters)
     problem = pipeline.problem()
     objective = pipeline.objective()
-    estimator, minimiser = components["estimator"], components["minimiser"]
+    measurement, minimiser = components["estimator"].bind(pipeline), components["minimiser"]
     x0 = objective.initial_parameters() if initial_parameters is None else objective.check_parameters(
         initial_parameters)
-
-    def energy(theta: np.ndarray) -> float:
-        return estimator.energy(objective, theta)
-
-    def energy_and_gradient(theta: np.ndarray) -> tuple[float, np.ndarray]:
-        return estimator.energy_and_gradient(objective, theta)
-
-    gradient = energy_and_gradient if estimator.provides_gradient else None
+    gradient = measurement.energy_and_gradient if measurement.provides_gradient else None
     if objective.n_parameters == 0:
-        outcome = MinimiserOutcome(parameters=x0, energy=energy(x0), converged=True,
+        outcome = MinimiserOutcome(parameters=x0, energy=measurement.energy(x0), converged=True,
                                    stop_reason="the trial state has no parameters", iterations=(), evaluations=1)
     else:
-        outcome = minimiser.minimise(energy, x0, energy_and_gradient=gradient, callback=callback)
+        outcome = minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient, callback=callback)
     if not np.isfinite(outcome.energy):  # interrupted before the first evaluation finished
-        outcome = replace(outcome, energy=energy(outcome.parameters))
-    return build_result(pipeline, problem, objective, outcome, components)
+        outcome = replace(outcome, energy=measurement.energy(outcome.parameters))
+    return build_result(pipeline, problem, objective, outcome, components, measurement)
 
 
-def build_result(pipeline: Pipeline, problem: Any, objective: Any, outcome: Any, components: dict) -> RunResult:
-    """Assemble a RunResult from a minimiser outcome (final state analysed exactly)."""
+def build_result(
+    pipeline: Pipeline, problem: Any, objective: Any, outcome: Any, components: dict, measurement: Any = None
+) -> RunResult:
+    """Assemble a RunResult from a minimiser outcome (final state analysed exactly).
+
+    With a statistical ``measurement`` the reported energy is a fresh estimate at the final parameters, with its
+    standard error; the exact energy of those parameters is kept beside it.
+    """
     theta = np.asarray(outcome.parameters, dtype=float)
+    if measurement is not None and not measurement.exact:
+        final_energy, standard_error = measurement.estimate(theta)
+    else:
+        final_energy, standard_error = float(outcome.energy), 0.0
     state = objective.state(theta)
     reference = problem.reference
     norm = float(np.vdot(state, state).real)
-    overlap = float(np.vdot(reference.ci, state).real)
-    phase = -1.0 if overlap < 0 else 1.0  # global phase: overlap with the exact state non-negative
+    # a qubit objective's state is a statevector: compare it with the exact state embedded on its register
+    exact = objective.encoding.embed(reference.ci) if hasattr(objective, "encoding") else reference.ci
+    overlap_value = complex(np.vdot(exact, state))
+    overlap = abs(overlap_value)
+    # global phase: overlap with the exact state real and non-negative (real parts of amplitudes are reported)
+    phase = overlap_value.conjugate() / overlap if overlap > 0 else 1.0
     records = outcome.iterations
     history = History(
         energies=tuple(float(r.energy) for r in records),
@@ -63,7 +73,9 @@ def build_result(pipeline: Pipeline, problem: Any, objective: Any, outcome: Any,
     )
     baselines = {name: problem.baselines[name] for name in problem.baselines}
     return RunResult(
-        energy=float(outcome.energy),
+        energy=float(final_energy),
+        standard_error=float(standard_error),
+        exact_energy=float(objective.energy(theta)),
         parameters=theta.copy(),
         parameter_labels=tuple(getattr(objective, "parameter_labels", ())),
         history=history,
@@ -73,10 +85,11 @@ def build_result(pipeline: Pipeline, problem: Any, objective: Any, outcome: Any,
                                   spin_square=reference.spin_square, amplitudes=reference.amplitudes,
                                   method=reference.method),
         baselines=baselines,
-        amplitudes={label: phase * a for label, a in objective.amplitudes(theta).items()},
+        amplitudes={label: float(np.real(phase * a)) for label, a in objective.amplitudes(theta).items()},
         fidelity=overlap * overlap / norm,
         spin_square=float(objective.spin_square(theta)),
-        particle_number=float(problem.n_electrons) * norm,
+        particle_number=(float(objective.particle_number(theta)) if hasattr(objective, "particle_number")
+                         else float(problem.n_electrons) * norm),
         resources=resources_for(pipeline, objective, theta),
         provenance=provenance(pipeline.configuration(), components),
     )

@@ -1,4 +1,9 @@
-"""The estimator protocol: energy, energy with gradient, and an estimate with its standard error."""
+"""The estimator protocol: an estimator (options only) binds to a pipeline and then gives energies.
+
+``Estimator.bind(pipeline)`` returns a :class:`Measurement`, which holds what the estimator computed for that
+pipeline (measurement groups, rotations, a seeded generator) and answers ``estimate(θ) -> (value, stderr)``,
+``energy(θ)`` and, where it can, ``energy_and_gradient(θ)``. Energies in Hartree, parameters in radians.
+"""
 
 from __future__ import annotations
 
@@ -8,24 +13,50 @@ from typing import Any
 import numpy as np
 
 
-class Estimator(ABC):
-    """Turns an objective (exact E(θ) in the determinant space or on qubits) into the numbers a minimiser sees.
-
-    Subclasses are frozen dataclasses of options. ``exact`` is True when values carry no statistical error;
-    ``provides_gradient`` is True when :meth:`energy_and_gradient` returns gradients.
-    """
+class Measurement(ABC):
+    """An estimator bound to one pipeline's objective."""
 
     exact: bool = True
     provides_gradient: bool = False
 
     @abstractmethod
-    def estimate(self, objective: Any, theta: np.ndarray) -> tuple[float, float]:
+    def estimate(self, theta: np.ndarray) -> tuple[float, float]:
         """(energy in Ha, standard error in Ha) at parameters ``theta``."""
 
-    def energy(self, objective: Any, theta: np.ndarray) -> float:
+    def energy(self, theta: np.ndarray) -> float:
         """The energy estimate (Ha) alone."""
-        return self.estimate(objective, theta)[0]
+        return self.estimate(theta)[0]
 
-    def energy_and_gradient(self, objective: Any, theta: np.ndarray) -> tuple[float, np.ndarray] | None:
-        """(energy, gradient) where this estimator provides gradients, else None."""
-        return None
+    def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
+        """(energy, gradient in Ha/rad); only when ``provides_gradient``."""
+        from ..errors import ComponentError
+
+        raise ComponentError(f"{type(self).__name__} gives no gradients; use a gradient-free minimiser (COBYLA, "
+                             "Nelder-Mead, SPSA)")
+
+
+def central_differences(energy: Any, theta: np.ndarray, step: float) -> np.ndarray:
+    """Gradient (Ha/rad) by central differences of ``energy`` with ``step`` radians: 2P evaluations."""
+    theta = np.asarray(theta, dtype=float)
+    gradient = np.empty(theta.size)
+    for k in range(theta.size):
+        shift = np.zeros(theta.size)
+        shift[k] = step
+        gradient[k] = (energy(theta + shift) - energy(theta - shift)) / (2 * step)
+    return gradient
+
+
+class Estimator(ABC):
+    """Configuration of how energies are obtained; subclasses are frozen dataclasses of options."""
+
+    exact: bool = True
+
+    @abstractmethod
+    def measure(self, objective: Any, encoding: Any = None) -> Measurement:
+        """The measurement of this estimator on ``objective``; ``encoding`` is the qubit register it is measured
+        on (needed by every estimator that is not exact)."""
+
+    def bind(self, pipeline: Any, objective: Any = None) -> Measurement:
+        """The measurement on ``pipeline``'s objective (or on ``objective``, e.g. a grown adaptive state)."""
+        objective = pipeline.objective() if objective is None else objective
+        return self.measure(objective, None if self.exact else pipeline.encoding())

@@ -7,7 +7,24 @@ from typing import Any
 
 import numpy as np
 
-from .base import Estimator
+from .base import Estimator, Measurement
+
+
+class ExactMeasurement(Measurement):
+    """Exact energies and analytic gradients straight from the objective."""
+
+    exact = True
+    provides_gradient = True
+
+    def __init__(self, objective: Any) -> None:
+        self.objective = objective
+
+    def estimate(self, theta: np.ndarray) -> tuple[float, float]:
+        return float(self.objective.energy(theta)), 0.0
+
+    def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
+        energy, gradient = self.objective.energy_and_gradient(theta)
+        return float(energy), np.asarray(gradient, dtype=float)
 
 
 @dataclass(frozen=True)
@@ -15,14 +32,9 @@ class ExactEstimator(Estimator):
     """Exact energies and analytic (adjoint) gradients from the objective; the default estimator."""
 
     exact = True
-    provides_gradient = True
 
-    def estimate(self, objective: Any, theta: np.ndarray) -> tuple[float, float]:
-        return float(objective.energy(theta)), 0.0
-
-    def energy_and_gradient(self, objective: Any, theta: np.ndarray) -> tuple[float, np.ndarray]:
-        energy, gradient = objective.energy_and_gradient(theta)
-        return float(energy), np.asarray(gradient, dtype=float)
+    def measure(self, objective: Any, encoding: Any = None) -> ExactMeasurement:
+        return ExactMeasurement(objective)
 
     def __repr__(self) -> str:
         return "ExactEstimator()"

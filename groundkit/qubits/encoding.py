@@ -91,7 +91,8 @@ class QubitEncoding:
         return np.array([(1 << p.n_alpha) - 1]), np.array([(1 << p.n_beta) - 1])
 
     def embed(self, ci: np.ndarray) -> np.ndarray:
-        """Statevector (length 2^n_qubits) of a PySCF-ordered CI array; weight outside the sector is dropped."""
+        """Statevector (length 2^n_qubits) of a PySCF-ordered CI array; weight outside the sector is dropped
+        (see :meth:`conserves_symmetry` for trial states that stay inside it)."""
         if self.n_qubits > QUBIT_STATE_LIMIT:
             raise SizeLimitError(
                 f"a statevector on {self.n_qubits} qubits is above the limit of {QUBIT_STATE_LIMIT} qubits"
@@ -113,6 +114,20 @@ class QubitEncoding:
         alpha, beta = self._sector_strings
         aa, bb = np.meshgrid(alpha, beta, indexing="ij")
         return self.basis_states(aa.ravel(), bb.ravel())
+
+    def conserves_symmetry(self, excitation: Any) -> bool:
+        """True when the excitation keeps every determinant inside the tapered sector (always when untapered).
+
+        An excitation flips the occupations of its spin orbitals; under the linear encoding that flips bits
+        M·delta, and a Z symmetry keeps its eigenvalue exactly when it covers an even number of flipped bits.
+        """
+        if self.taper is None:
+            return True
+        delta = np.zeros(self.n_modes, dtype=np.int64)
+        for k in tuple(excitation.creators) + tuple(excitation.annihilators):
+            delta[k] ^= 1
+        flipped = (self.matrix.astype(np.int64) @ delta) % 2
+        return all(int(np.dot(mask, flipped)) % 2 == 0 for mask in self.taper.generators)
 
     # operators ----------------------------------------------------------------------------------------------
     def encode(self, operator: Any) -> QubitOperator:

@@ -48,6 +48,21 @@ class ExcitationPlan:
         """Rotation angle of every excitation (radians) for a parameter vector."""
         return np.asarray(self.scale) * np.asarray(parameters, dtype=float)[list(self.parameter_index)]
 
+    def restricted(self, keep: Sequence[bool]) -> ExcitationPlan:
+        """The plan with only the excitations where ``keep`` is True; parameters that drive none are dropped and
+        the rest renumbered in order."""
+        kept = [k for k, flag in enumerate(keep) if flag]
+        old_index = sorted({self.parameter_index[k] for k in kept})
+        new_index = {old: new for new, old in enumerate(old_index)}
+        return ExcitationPlan(
+            excitations=tuple(self.excitations[k] for k in kept),
+            parameter_index=tuple(new_index[self.parameter_index[k]] for k in kept),
+            scale=tuple(self.scale[k] for k in kept),
+            n_parameters=len(old_index),
+            reference=self.reference,
+            labels=tuple(self.labels[i] for i in old_index),
+        )
+
     def parameter_gradient(self, angle_gradient: np.ndarray) -> np.ndarray:
         """Chain rule from derivatives by excitation angle to derivatives by parameter."""
         weights = np.asarray(self.scale) * np.asarray(angle_gradient, dtype=float)

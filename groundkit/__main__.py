@@ -1,0 +1,7 @@
+"""``python -m groundkit run study.toml [--resume]``."""
+
+import sys
+
+from .cli import main
+
+sys.exit(main())

@@ -1,0 +1,137 @@
+"""SampledEstimator: energies from finite shots, drawn from the exact state, with honest standard errors.
+
+For each measurement group the state is rotated so every Pauli of the group is measured as Z, outcomes are drawn
+with numpy's seeded generator (a multinomial over the 2^n outcome probabilities: the same statistics as one
+shot at a time), and the group's value is evaluated per shot. Terms of one group come from the same shots, so
+their correlations are in the per-shot values; groups are independent. The standard error is
+sqrt(sum_g s_g^2 / N_g) with s_g^2 the sample variance of group g over its N_g shots.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from ..errors import ComponentError, SymmetryError
+from .base import Estimator, Measurement, central_differences
+from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities
+
+ALLOCATIONS = ("uniform", "variance")
+
+
+def statevector(objective: Any, encoding: Any, theta: np.ndarray) -> np.ndarray:
+    """The trial state on the qubit register: determinant-space states are embedded, qubit states returned."""
+    if hasattr(objective, "sector"):  # the determinant engine's Objective
+        vector = encoding.embed(objective.state(theta))
+        lost = 1.0 - float(np.vdot(vector, vector).real)
+        if lost > 1e-9:
+            raise SymmetryError(
+                f"the trial state has weight {lost:.3g} outside the tapered symmetry sector of {encoding.mapping!r}; "
+                "build the objective through the pipeline (it keeps symmetry-conserving excitations only)"
+            )
+        return vector
+    return np.asarray(objective.state(theta), dtype=complex)
+
+
+def allocate(shots: int, sigmas: np.ndarray, allocation: str, minimum: int = 2) -> np.ndarray:
+    """Shots per group summing to ``shots``: equal, or proportional to the group standard deviations sigma_g,
+    with at least ``minimum`` shots per group."""
+    n_groups = len(sigmas)
+    spare = shots - minimum * n_groups
+    if allocation == "uniform" or not np.any(sigmas > 0):
+        weights = np.ones(n_groups)
+    else:
+        weights = np.asarray(sigmas, dtype=float)
+    share = spare * weights / weights.sum()
+    counts = np.floor(share).astype(np.int64)
+    remainder = spare - int(counts.sum())
+    counts[np.argsort(-(share - counts), kind="stable")[:remainder]] += 1
+    return counts + minimum
+
+
+@dataclass(frozen=True)
+class SampledEstimator(Estimator):
+    """``SampledEstimator(shots=10_000, grouping="qwc", allocation="variance", seed=7)``.
+
+    ``shots`` is the total for one energy estimate, split across measurement groups by ``allocation``
+    ('uniform', or 'variance': N_g proportional to the group's standard deviation in the current state, taken
+    from the exact state as an idealisation of a pilot measurement). ``grouping``: 'qwc' (qubit-wise commuting,
+    greedy) or 'none' (one term per group). Gradients are central finite differences with step
+    ``gradient_step`` (radians), each side estimated with ``shots`` shots.
+    """
+
+    shots: int = 10_000
+    grouping: str = "qwc"
+    allocation: str = "variance"
+    seed: int | None = None
+    gradient_step: float = 0.1
+
+    exact = False
+
+    def __post_init__(self) -> None:
+        if isinstance(self.shots, bool) or not isinstance(self.shots, (int, np.integer)) or self.shots <= 0:
+            raise ComponentError(f"shots={self.shots!r} must be a positive integer (total shots per estimate)")
+        if self.grouping not in GROUPINGS:
+            raise ComponentError(f"unknown grouping {self.grouping!r}; accepted: {', '.join(GROUPINGS)}")
+        if self.allocation not in ALLOCATIONS:
+            raise ComponentError(f"unknown allocation {self.allocation!r}; accepted: {', '.join(ALLOCATIONS)}")
+        if self.seed is not None and (isinstance(self.seed, bool) or not isinstance(self.seed, (int, np.integer))):
+            raise ComponentError(f"seed={self.seed!r} must be an integer or None")
+        if not (isinstance(self.gradient_step, (int, float)) and 0 < self.gradient_step < np.pi):
+            raise ComponentError(f"gradient_step={self.gradient_step!r} must lie in (0, pi) radians")
+
+    def measure(self, objective: Any, encoding: Any = None) -> SampledMeasurement:
+        if encoding is None:
+            raise ComponentError("SampledEstimator needs the qubit register: bind it through a pipeline")
+        return SampledMeasurement(self, objective, encoding)
+
+
+class SampledMeasurement(Measurement):
+    """A SampledEstimator bound to one objective and qubit register; holds the seeded generator."""
+
+    exact = False
+    provides_gradient = True
+
+    def __init__(self, options: SampledEstimator, objective: Any, encoding: Any) -> None:
+        self.options = options
+        self.objective = objective
+        self.encoding = encoding
+        self.n_qubits = encoding.n_qubits
+        self.constant, self.groups = measurement_groups(encoding.hamiltonian, self.n_qubits, options.grouping)
+        if options.shots < 2 * len(self.groups):
+            raise ComponentError(
+                f"shots={options.shots} are too few for {len(self.groups)} measurement groups; give at least "
+                f"{2 * len(self.groups)} (two per group)"
+            )
+        self.rng = np.random.default_rng(options.seed)
+
+    def estimate(self, theta: np.ndarray) -> tuple[float, float]:
+        return self.estimate_state(statevector(self.objective, self.encoding, theta))
+
+    def estimate_state(self, state: np.ndarray) -> tuple[float, float]:
+        """(energy, standard error) in Ha from ``shots`` shots of a statevector."""
+        if self.options.allocation == "variance":
+            sigmas = np.sqrt([group_moments(state, g, self.n_qubits)[1] for g in self.groups])
+        else:
+            sigmas = np.ones(len(self.groups))
+        shots = allocate(self.options.shots, sigmas, self.options.allocation)
+        energy, variance = self.constant, 0.0
+        for group, n in zip(self.groups, shots):
+            p = rotated_probabilities(state, group.basis, self.n_qubits)
+            counts = self.rng.multinomial(int(n), p)
+            seen = np.flatnonzero(counts)
+            values = group.values(seen)
+            weights = counts[seen]
+            mean = float(weights @ values) / n
+            energy += mean
+            variance += float(weights @ (values - mean) ** 2) / (n - 1) / n
+        return float(energy), float(np.sqrt(variance))
+
+    def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
+        """Sampled energy and central finite-difference gradient (2P + 1 estimates of ``shots`` shots)."""
+        return self.energy(theta), central_differences(self.energy, theta, self.options.gradient_step)
+
+    def __repr__(self) -> str:
+        return f"SampledMeasurement({self.options!r}, {len(self.groups)} groups, {self.n_qubits} qubits)"

@@ -1,0 +1,145 @@
+"""Scans as JSON: schema name and version, validation on load, atomic writes; nothing is executed on load."""
+
+from __future__ import annotations
+
+import json
+import math
+import os
+import tempfile
+from typing import Any
+
+from groundkit.errors import GroundkitError, ResultFileError
+from groundkit.molecule import MoleculeSpec
+from groundkit.persistence import _jsonable, result_from_dict, result_to_dict
+
+from .scan_result import ScanPoint, ScanResult
+
+SCHEMA = "groundkit.scan-result"
+VERSION = 1
+
+
+def write_json_atomic(data: Any, path: str | os.PathLike) -> None:
+    """Write ``data`` as JSON via a temporary file in the same folder, flushed to disk, then renamed."""
+    text = json.dumps(data, indent=1, allow_nan=False, default=_jsonable)
+    folder = os.path.dirname(os.path.abspath(path))
+    fd, tmp = tempfile.mkstemp(prefix=".groundkit-", suffix=".tmp", dir=folder)
+    try:
+        with os.fdopen(fd, "w", encoding="utf-8") as fh:
+            fh.write(text)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, path)
+    except BaseException:
+        if os.path.exists(tmp):
+            os.unlink(tmp)
+        raise
+
+
+def read_json(path: str | os.PathLike, expected: str) -> Any:
+    """Parsed JSON of ``path``; ``ResultFileError`` naming ``expected`` when the file is not readable JSON."""
+    try:
+        with open(path, encoding="utf-8") as fh:
+            return json.load(fh)
+    except UnicodeDecodeError:
+        raise ResultFileError(f"{path}: not a text file; expected {expected} (JSON)") from None
+    except json.JSONDecodeError as err:
+        raise ResultFileError(
+            f"{path}: not valid JSON ({err.msg} at line {err.lineno}, column {err.colno}); the file may be "
+            f"truncated. Expected {expected}"
+        ) from None
+
+
+def molecule_to_dict(molecule: MoleculeSpec) -> dict[str, Any]:
+    return {"symbols": list(molecule.symbols), "coordinates": [list(c) for c in molecule.coordinates],
+            "charge": molecule.charge, "multiplicity": molecule.multiplicity, "basis": molecule.basis,
+            "unit": molecule.unit, "name": molecule.name}
+
+
+def molecule_from_dict(data: Any, source: str) -> MoleculeSpec:
+    keys = ("symbols", "coordinates", "charge", "multiplicity", "basis", "unit", "name")
+    if not isinstance(data, dict) or set(data) != set(keys):
+        raise ResultFileError(f"{source}: molecule {str(data)[:60]!r} is not a molecule record with keys {keys}")
+    try:
+        return MoleculeSpec(**data)
+    except (GroundkitError, TypeError) as err:
+        raise ResultFileError(f"{source}: the stored molecule is not valid ({err})") from None
+
+
+def point_to_dict(point: ScanPoint) -> dict[str, Any]:
+    return {
+        "index": point.index,
+        "value": float(point.value),
+        "molecule": None if point.molecule is None else molecule_to_dict(point.molecule),
+        "result": None if point.result is None else result_to_dict(point.result),
+        "failure": point.failure,
+        "start": point.start,
+        "orbital_match": point.orbital_match,
+        "wall_time": float(point.wall_time),
+        "handover": point.handover,
+    }
+
+
+def point_from_dict(data: Any, source: str) -> ScanPoint:
+    if not isinstance(data, dict):
+        raise ResultFileError(f"{source}: a scan point is {str(data)[:60]!r}; expected a JSON object")
+
+    def get(key: str, kinds: tuple, nullable: bool = False) -> Any:
+        if key not in data:
+            raise ResultFileError(f"{source}: scan point field {key!r} is missing")
+        value = data[key]
+        if value is None and nullable:
+            return None
+        if isinstance(value, bool) and bool not in kinds or not isinstance(value, kinds):
+            raise ResultFileError(f"{source}: scan point field {key!r} is {str(value)[:60]!r}; expected "
+                                  f"{' or '.join(k.__name__ for k in kinds)}")
+        if isinstance(value, float) and not math.isfinite(value):
+            raise ResultFileError(f"{source}: scan point field {key!r} is {value!r}; expected a finite number")
+        return value
+
+    molecule = get("molecule", (dict,), nullable=True)
+    result = get("result", (dict,), nullable=True)
+    return ScanPoint(
+        index=int(get("index", (int,))),
+        value=float(get("value", (int, float))),
+        molecule=None if molecule is None else molecule_from_dict(molecule, source),
+        result=None if result is None else result_from_dict(result, source=source),
+        failure=get("failure", (str,), nullable=True),
+        start=get("start", (str,)),
+        orbital_match=get("orbital_match", (int, float), nullable=True),
+        wall_time=float(get("wall_time", (int, float))),
+        handover=get("handover", (dict,), nullable=True),
+    )
+
+
+def scan_to_dict(scan: ScanResult) -> dict[str, Any]:
+    return {"schema": SCHEMA, "version": VERSION, "configuration": dict(scan.configuration),
+            "warm_start": scan.warm_start, "points": [point_to_dict(p) for p in scan.points]}
+
+
+def scan_from_dict(data: Any, source: str = "data") -> ScanResult:
+    if not isinstance(data, dict) or "schema" not in data:
+        raise ResultFileError(f"{source}: no 'schema' field; expected a groundkit scan with schema {SCHEMA!r}")
+    if data["schema"] != SCHEMA:
+        raise ResultFileError(f"{source}: schema {data['schema']!r} is not {SCHEMA!r}")
+    if data.get("version") != VERSION:
+        raise ResultFileError(f"{source}: schema version {data.get('version')!r}; this groundkit reads {VERSION}")
+    configuration, points = data.get("configuration"), data.get("points")
+    if not isinstance(configuration, dict) or not all(isinstance(v, str) for v in configuration.values()):
+        raise ResultFileError(f"{source}: field 'configuration' is {str(configuration)[:60]!r}; expected strings")
+    if not isinstance(points, list):
+        raise ResultFileError(f"{source}: field 'points' is {str(points)[:60]!r}; expected a list")
+    warm_start = data.get("warm_start")
+    if not isinstance(warm_start, str):
+        raise ResultFileError(f"{source}: field 'warm_start' is {warm_start!r}; expected a string")
+    return ScanResult(points=tuple(point_from_dict(p, source) for p in points), configuration=configuration,
+                      warm_start=warm_start)
+
+
+def save_scan(scan: ScanResult, path: str | os.PathLike) -> None:
+    """Write ``scan`` to ``path`` as JSON, atomically."""
+    write_json_atomic(scan_to_dict(scan), path)
+
+
+def load_scan(path: str | os.PathLike) -> ScanResult:
+    """Read a scan saved by :meth:`ScanResult.save`; ``ResultFileError`` for anything else."""
+    return scan_from_dict(read_json(path, "a groundkit scan saved by ScanResult.save"), source=str(path))

@@ -1,0 +1,193 @@
+"""``gk.explore(pipeline)``: choose each component, run, and compare the runs in a growing table."""
+
+from __future__ import annotations
+
+import html
+import time
+from typing import Any
+
+import ipywidgets as widgets
+
+from ..active_space import ActiveSpace
+from ..errors import ComponentError
+from ..mapping import MAPPINGS, QubitMapping
+from . import palette
+from .html import table, verdict_html
+from .live import RunView
+
+_WIDE = {"description_width": "120px"}
+
+
+def _trial_states() -> list[tuple[str, Any]]:
+    from ..trial_states import PUCCD, UCCSD, HartreeFock, UpCCGSD
+
+    return [("UCCSD", UCCSD()), ("pair UCCD (PUCCD)", PUCCD()), ("k-UpCCGSD, k=1", UpCCGSD(k=1)),
+            ("k-UpCCGSD, k=2", UpCCGSD(k=2)), ("Hartree–Fock only", HartreeFock())]
+
+
+def _minimisers() -> list[tuple[str, Any]]:
+    from ..minimisers import BFGS, COBYLA, LBFGSB, SPSA, Adam, GradientDescent, NelderMead
+
+    return [("BFGS", BFGS()), ("L-BFGS-B", LBFGSB()), ("COBYLA", COBYLA()), ("Nelder–Mead", NelderMead()),
+            ("SPSA (seed 3)", SPSA(seed=3)), ("Adam", Adam()), ("gradient descent", GradientDescent())]
+
+
+def _with_own(options: list[tuple[str, Any]], own: Any) -> list[tuple[str, Any]]:
+    """The options, with the pipeline's own component first when it is not among them."""
+    if own is None or any(value == own for _, value in options):
+        return options
+    return [(f"pipeline's own: {own!r}", own), *options]
+
+
+class Explorer(widgets.VBox):
+    """Selectors for every component, a run button, the live view of the latest run and a table of all runs.
+
+    ``rows`` holds one dict per finished run; ``message`` shows the library's message when a choice is refused.
+    """
+
+    def __init__(self, pipeline: Any) -> None:
+        if pipeline.components["molecule"] is None:
+            raise ComponentError("explore needs a pipeline with a molecule; use Pipeline(molecule)")
+        self.pipeline = pipeline
+        self.rows: list[dict[str, Any]] = []
+        self.results: list[Any] = []
+        own = pipeline.components
+        resolved = pipeline.resolved_components()
+        self._own_space = resolved["active_space"]
+        space = pipeline.problem().active_orbitals
+        self._own_counts = (space.n_electrons, space.n_orbitals)
+        self.electrons = widgets.IntText(value=space.n_electrons, description="active electrons", style=_WIDE)
+        self.orbitals = widgets.IntText(value=space.n_orbitals, description="active orbitals", style=_WIDE)
+        mapping = resolved["mapping"]
+        self.mapping = widgets.Dropdown(options=list(MAPPINGS), value=mapping.name, description="mapping",
+                                        style=_WIDE)
+        self.taper = widgets.Checkbox(value=bool(mapping.taper), description="taper symmetry qubits")
+        trial_options = _with_own(_trial_states(), own["trial_state"])
+        self.trial_state = widgets.Dropdown(options=trial_options, value=resolved["trial_state"]
+                                            if own["trial_state"] is not None else trial_options[0][1],
+                                            description="trial state", style=_WIDE)
+        self.estimator, self.shots, self.seed = self._estimator_widgets(own["estimator"])
+        minimiser_options = _with_own(_minimisers(), own["minimiser"])
+        self.minimiser = widgets.Dropdown(options=minimiser_options, value=resolved["minimiser"]
+                                          if own["minimiser"] is not None else minimiser_options[0][1],
+                                          description="minimiser", style=_WIDE)
+        self.run_button = widgets.Button(description="Run this configuration", button_style="primary",
+                                         icon="play", layout=widgets.Layout(width="220px"))
+        self.run_button.on_click(self.run)
+        self.message = widgets.HTML()
+        self.view_area = widgets.Box()
+        self.table_area = widgets.HTML(value=self._table_html())
+        selectors = widgets.VBox([
+            widgets.HTML("<b>Configuration</b>"),
+            widgets.HBox([self.electrons, self.orbitals]),
+            widgets.HBox([self.mapping, self.taper]),
+            self.trial_state,
+            widgets.HBox([self.estimator, self.shots, self.seed]),
+            self.minimiser,
+            widgets.HBox([self.run_button, self.message]),
+        ])
+        super().__init__([selectors, self.view_area, widgets.HTML("<b>Runs so far</b>"), self.table_area])
+        self.add_class("groundkit-explorer")
+
+    def _estimator_widgets(self, own: Any) -> tuple[Any, Any, Any]:
+        from ..estimators import SampledEstimator
+
+        options: list[tuple[str, Any]] = [("exact energies", "exact"), ("sampled (shots)", "sampled")]
+        value: Any = "exact"
+        shots, seed = 10_000, 7
+        if isinstance(own, SampledEstimator):
+            value, shots, seed = "sampled", own.shots, own.seed if own.seed is not None else 7
+        elif own is not None and type(own).__name__ != "ExactEstimator":
+            options.insert(0, (f"pipeline's own: {own!r}", own))
+            value = own
+        return (widgets.Dropdown(options=options, value=value, description="estimator", style=_WIDE),
+                widgets.IntText(value=shots, description="shots", layout=widgets.Layout(width="200px")),
+                widgets.IntText(value=seed, description="seed", layout=widgets.Layout(width="160px")))
+
+    # building and running ---------------------------------------------------------------------------------------
+    def configured(self) -> Any:
+        """The pipeline for the current selection (raises the library's errors for bad choices)."""
+        counts = (int(self.electrons.value), int(self.orbitals.value))
+        space = self._own_space if counts == self._own_counts else ActiveSpace(electrons=counts[0],
+                                                                                  orbitals=counts[1])
+        estimator = self.estimator.value
+        if estimator == "sampled":
+            from ..estimators import SampledEstimator
+
+            estimator = SampledEstimator(shots=int(self.shots.value), seed=int(self.seed.value))
+        p = self.pipeline.active_space(space).mapping(QubitMapping(self.mapping.value, taper=self.taper.value))
+        p = p.trial_state(self.trial_state.value).estimator(estimator).minimiser(self.minimiser.value)
+        p.problem()  # refuse an impossible active space before the view is built
+        return p
+
+    def run(self, _button: Any = None) -> Any:
+        """Run the selected configuration (the button's handler); returns the result, or None when refused."""
+        self.run_button.disabled = True
+        self.message.value = self._note("running…", palette.GREY)
+        try:
+            pipeline = self.configured()
+            view = RunView.for_pipeline(pipeline)
+            self.view_area.children = (view,)
+            start = time.perf_counter()
+            result = pipeline.run(view.update)
+            elapsed = time.perf_counter() - start
+            view.finish(result)
+        except Exception as err:  # the library's message in the widget; the explorer stays usable
+            self.message.value = self._note(f"{type(err).__name__}: {err}", palette.VERMILION, "Not run — ")
+            return None
+        finally:
+            self.run_button.disabled = False
+        self.results.append(result)
+        self.rows.append(self._row(pipeline, result, elapsed))
+        self.table_area.value = self._table_html()
+        self.message.value = self._note(f"run {len(self.rows)} added to the table", palette.GREEN, "Done — ")
+        return result
+
+    @property
+    def table(self) -> Any:
+        """The runs so far as a pandas DataFrame."""
+        import pandas as pd
+
+        return pd.DataFrame([{k: v for k, v in row.items() if k != "verdict_html"} for row in self.rows])
+
+    # presentation -----------------------------------------------------------------------------------------------
+    def _row(self, pipeline: Any, result: Any, elapsed: float) -> dict[str, Any]:
+        c = pipeline.resolved_components()
+        space = pipeline.problem().active_orbitals
+        mapping = c["mapping"].name + (" (tapered)" if c["mapping"].taper else "")
+        r = result.resources
+        return {"run": len(self.rows) + 1, "active_space": f"{space.n_electrons}e/{space.n_orbitals}o",
+                "mapping": mapping, "trial_state": self.trial_state.label, "estimator": repr(c["estimator"]),
+                "minimiser": self.minimiser.label, "energy": result.energy, "error_mha": 1000 * result.error,
+                "standard_error_mha": 1000 * result.standard_error, "verdict": result.verdict,
+                "qubits": r.qubits, "parameters": r.parameters, "two_qubit_gates": r.two_qubit_gates,
+                "measurement_groups": r.measurement_groups, "iterations": result.iterations, "time_s": elapsed}
+
+    def _table_html(self) -> str:
+        if not self.rows:
+            return "<div style='font-family:sans-serif;color:#555'>No runs yet: choose a configuration and run.</div>"
+        header = ["run", "active space", "mapping", "trial state", "estimator", "minimiser", "energy / Ha",
+                  "error / mHa", "verdict", "qubits", "parameters", "2-qubit gates", "groups", "iterations",
+                  "time / s"]
+        body = []
+        for row in self.rows:
+            error = f"{row['error_mha']:+.3f}" + (f" ± {row['standard_error_mha']:.3f}"
+                                                   if row["standard_error_mha"] else "")
+            body.append([row["run"], *(html.escape(str(row[k])) for k in
+                                       ("active_space", "mapping", "trial_state", "estimator", "minimiser")),
+                         f"{row['energy']:.8f}", error, verdict_html(row["verdict"]),
+                         *("—" if row[k] is None else row[k] for k in
+                           ("qubits", "parameters", "two_qubit_gates", "measurement_groups", "iterations")),
+                         f"{row['time_s']:.2f}"])
+        return "<div class='gk-box' style='font-family:sans-serif;font-size:12px'>" + table(
+            header, body, left=6) + "</div>"
+
+    @staticmethod
+    def _note(text: str, colour: str, prefix: str = "") -> str:
+        return (f"<div role='status' style='font-family:sans-serif;padding:4px 8px;border-left:4px solid {colour}'>"
+                f"<b>{html.escape(prefix)}</b>{html.escape(text)}</div>")
+
+
+def explore(pipeline: Any) -> Explorer:
+    """A configuration explorer for ``pipeline`` (which must have a molecule); display it in a notebook."""
+    return Explorer(pipeline)

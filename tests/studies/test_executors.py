@@ -1,0 +1,51 @@
+import concurrent.futures as cf
+
+import pytest
+
+import groundkit as gk
+from groundkit.studies import ExecutorError
+
+from .helpers import assert_same_scan, h2
+
+VALUES = [0.6, 0.7, 0.8, 0.9]
+
+
+@pytest.fixture(scope="module")
+def serial_tables():
+    pipeline = gk.Pipeline().trial_state(gk.UCCSD())
+    return {warm: pipeline.scan(h2, VALUES, warm_start=warm).table for warm in (False, 2)}
+
+
+@pytest.mark.slow
+def test_local_processes_give_the_serial_table(serial_tables):
+    pipeline = gk.Pipeline().trial_state(gk.UCCSD())
+    for warm, table in serial_tables.items():
+        parallel = pipeline.scan(h2, VALUES, warm_start=warm, executor="processes")
+        assert_same_scan(table, parallel.table, atol=1e-9, same_process=False)
+
+
+def test_a_callers_executor_is_used_and_left_open(serial_tables):
+    with cf.ThreadPoolExecutor(max_workers=2) as pool:
+        threaded = gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, VALUES, warm_start=False, executor=pool)
+        assert pool.submit(lambda: 1).result() == 1  # still open
+    assert_same_scan(serial_tables[False], threaded.table, atol=1e-9)
+
+
+@pytest.mark.slow
+def test_a_dask_local_cluster_of_two_processes_gives_the_serial_table(serial_tables):
+    distributed = pytest.importorskip("distributed")
+    cluster = distributed.LocalCluster(n_workers=2, threads_per_worker=1, processes=True, host="127.0.0.1",
+                                       dashboard_address=None)
+    try:
+        with distributed.Client(cluster) as client:
+            pipeline = gk.Pipeline().trial_state(gk.UCCSD())
+            for warm, table in serial_tables.items():
+                on_cluster = pipeline.scan(h2, VALUES, warm_start=warm, executor=client)
+                assert_same_scan(table, on_cluster.table, atol=1e-9, same_process=False)
+    finally:
+        cluster.close()
+
+
+def test_an_unknown_executor_is_refused():
+    with pytest.raises(ExecutorError, match="'threads' is not accepted"):
+        gk.Pipeline().scan(h2, [0.7], executor="threads")

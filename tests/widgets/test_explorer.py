@@ -1,0 +1,81 @@
+"""The configuration explorer, driven programmatically: selectors set, the run button's handler called."""
+
+from __future__ import annotations
+
+import pytest
+
+import groundkit as gk
+
+pytestmark = pytest.mark.filterwarnings("ignore::groundkit.DegenerateBoundaryWarning")
+
+
+def click(explorer):
+    explorer.run_button.click()  # calls the registered on_click handler
+
+
+def test_table_gains_a_row_per_run(lih_pipeline):
+    explorer = gk.explore(lih_pipeline)
+    assert explorer.rows == [] and "No runs yet" in explorer.table_area.value
+    click(explorer)
+    assert len(explorer.rows) == 1
+    explorer.mapping.value = "parity"
+    explorer.taper.value = True
+    click(explorer)
+    explorer.trial_state.value = dict(explorer.trial_state.options)["pair UCCD (PUCCD)"]
+    explorer.minimiser.value = dict(explorer.minimiser.options)["COBYLA"]
+    click(explorer)
+    assert [row["run"] for row in explorer.rows] == [1, 2, 3]
+    assert explorer.rows[1]["mapping"] == "parity (tapered)"
+    assert explorer.rows[1]["qubits"] < explorer.rows[0]["qubits"]
+    assert explorer.rows[2]["trial_state"] == "pair UCCD (PUCCD)" and explorer.rows[2]["minimiser"] == "COBYLA"
+    assert explorer.table_area.value.count("<tr>") == 4  # header and three runs
+    assert list(explorer.table["run"]) == [1, 2, 3]
+    latest = explorer.view_area.children[0]
+    assert latest.energy.energies == list(explorer.results[-1].history.energies)
+    for row, result in zip(explorer.rows, explorer.results):
+        assert row["energy"] == result.energy and row["error_mha"] == pytest.approx(1000 * result.error)
+
+
+def test_sampled_estimator_uses_the_shots_and_seed(h2_pipeline):
+    explorer = gk.explore(h2_pipeline)
+    explorer.estimator.value = "sampled"
+    explorer.shots.value = 3000
+    explorer.seed.value = 11
+    explorer.minimiser.value = dict(explorer.minimiser.options)["SPSA (seed 3)"]
+    assert explorer.configured().components["estimator"] == gk.SampledEstimator(shots=3000, seed=11)
+
+
+def test_too_large_active_space_shows_the_message_and_stays_usable(lih_pipeline):
+    explorer = gk.explore(lih_pipeline)
+    explorer.orbitals.value = 30
+    click(explorer)
+    assert explorer.rows == []
+    with pytest.raises(gk.ActiveSpaceError) as caught:
+        lih_pipeline.active_space(electrons=2, orbitals=30).problem()
+    message = explorer.message.value
+    assert "ActiveSpaceError" in message and "30 orbitals" in message
+    assert str(caught.value).split(";")[0].replace("<", "&lt;") in message
+    assert not explorer.run_button.disabled
+    explorer.orbitals.value = 3
+    click(explorer)
+    assert len(explorer.rows) == 1 and "Done" in explorer.message.value
+
+
+def test_bad_shot_count_shows_the_component_error(h2_pipeline):
+    explorer = gk.explore(h2_pipeline)
+    explorer.estimator.value = "sampled"
+    explorer.shots.value = -5
+    click(explorer)
+    assert explorer.rows == [] and "ComponentError" in explorer.message.value
+
+
+def test_own_components_are_offered(h2_pipeline):
+    own = gk.UpCCGSD(k=3)
+    explorer = gk.explore(h2_pipeline.trial_state(own).minimiser(gk.Adam(step=0.05)))
+    assert explorer.trial_state.value == own
+    assert explorer.minimiser.value == gk.Adam(step=0.05)
+
+
+def test_explorer_needs_a_molecule():
+    with pytest.raises(gk.ComponentError, match="molecule"):
+        gk.explore(gk.Pipeline())
