@@ -47,9 +47,10 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
     }
 
 
-def save_result(result: RunResult, path: str | os.PathLike) -> None:
-    """Write ``result`` to ``path`` as JSON via a temporary file in the same folder and an atomic rename."""
-    text = json.dumps(result_to_dict(result), indent=1, allow_nan=False, default=_jsonable)
+def write_json_atomic(data: Any, path: str | os.PathLike) -> None:
+    """Write ``data`` as JSON via a temporary file in the same folder, flushed to disk, then renamed over
+    ``path``: a crash never leaves half a file under the final name."""
+    text = json.dumps(data, indent=1, allow_nan=False, default=_jsonable)
     folder = os.path.dirname(os.path.abspath(path))
     fd, tmp = tempfile.mkstemp(prefix=".groundkit-", suffix=".tmp", dir=folder)
     try:
@@ -64,21 +65,28 @@ def save_result(result: RunResult, path: str | os.PathLike) -> None:
         raise
 
 
-def load_result(path: str | os.PathLike) -> RunResult:
-    """Read a result saved by :meth:`RunResult.save`; ``ResultFileError`` for anything else."""
+def read_json(path: str | os.PathLike, expected: str) -> Any:
+    """Parsed JSON of ``path``; ``ResultFileError`` naming ``expected`` when the file is not readable JSON."""
     try:
         with open(path, encoding="utf-8") as fh:
-            text = fh.read()
+            return json.load(fh)
     except UnicodeDecodeError:
-        raise ResultFileError(f"{path}: not a text file; expected a groundkit result (JSON)") from None
-    try:
-        data = json.loads(text)
+        raise ResultFileError(f"{path}: not a text file; expected {expected} (JSON)") from None
     except json.JSONDecodeError as err:
         raise ResultFileError(
             f"{path}: not valid JSON ({err.msg} at line {err.lineno}, column {err.colno}); the file may be "
-            "truncated. Expected a groundkit result saved by RunResult.save"
+            f"truncated. Expected {expected}"
         ) from None
-    return result_from_dict(data, source=str(path))
+
+
+def save_result(result: RunResult, path: str | os.PathLike) -> None:
+    """Write ``result`` to ``path`` as JSON, atomically (see :func:`write_json_atomic`)."""
+    write_json_atomic(result_to_dict(result), path)
+
+
+def load_result(path: str | os.PathLike) -> RunResult:
+    """Read a result saved by :meth:`RunResult.save`; ``ResultFileError`` for anything else."""
+    return result_from_dict(read_json(path, "a groundkit result saved by RunResult.save"), source=str(path))
 
 
 def result_from_dict(data: Any, source: str = "data") -> RunResult:

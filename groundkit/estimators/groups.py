@@ -62,6 +62,17 @@ def rotated_probabilities(state: np.ndarray, basis: dict[int, str], n_qubits: in
     return probabilities / probabilities.sum()
 
 
+def sample_group(rng: np.random.Generator, group: MeasurementGroup, probabilities: np.ndarray,
+                 shots: int) -> tuple[float, float]:
+    """Mean (Ha) of ``shots`` shots drawn from the outcome ``probabilities``, and the variance of that mean (Ha^2)
+    from the sample variance of the per-shot group values."""
+    counts = rng.multinomial(int(shots), probabilities)
+    seen = np.flatnonzero(counts)
+    values, weights = group.values(seen), counts[seen]
+    mean = float(weights @ values) / shots
+    return mean, float(weights @ (values - mean) ** 2) / (shots - 1) / shots
+
+
 def group_moments(state: np.ndarray, group: MeasurementGroup, n_qubits: int) -> tuple[float, float]:
     """Exact mean (Ha) and variance (Ha^2) of one group's per-shot value in ``state``."""
     p = rotated_probabilities(state, group.basis, n_qubits)

@@ -18,7 +18,7 @@ from openfermion import QubitOperator, get_sparse_operator
 
 from ..errors import ComponentError, SizeLimitError
 from .base import Estimator, Measurement, central_differences
-from .groups import measurement_groups
+from .groups import measurement_groups, sample_group
 from .sampled import allocate
 
 NOISY_QUBIT_LIMIT = 10  # density matrices of 4^n entries: 10 qubits = 16 MB, and Cirq's simulation time grows fast
@@ -115,13 +115,9 @@ class NoisyMeasurement(Measurement):
         shots = allocate(int(self.options.shots), np.ones(len(self.groups)), "uniform")
         energy, variance = self.constant, 0.0
         for group, n in zip(self.groups, shots):
-            p = self._outcome_probabilities(rho, group.basis)
-            counts = self.rng.multinomial(int(n), p)
-            seen = np.flatnonzero(counts)
-            values, weights = group.values(seen), counts[seen]
-            mean = float(weights @ values) / n
+            mean, var = sample_group(self.rng, group, self._outcome_probabilities(rho, group.basis), n)
             energy += mean
-            variance += float(weights @ (values - mean) ** 2) / (n - 1) / n
+            variance += var
         return float(energy), float(np.sqrt(variance))
 
     def _outcome_probabilities(self, rho: np.ndarray, basis: dict[int, str]) -> np.ndarray:

@@ -16,7 +16,7 @@ import numpy as np
 
 from ..errors import ComponentError, SymmetryError
 from .base import Estimator, Measurement, central_differences
-from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities
+from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities, sample_group
 
 ALLOCATIONS = ("uniform", "variance")
 
@@ -119,14 +119,9 @@ class SampledMeasurement(Measurement):
         shots = allocate(self.options.shots, sigmas, self.options.allocation)
         energy, variance = self.constant, 0.0
         for group, n in zip(self.groups, shots):
-            p = rotated_probabilities(state, group.basis, self.n_qubits)
-            counts = self.rng.multinomial(int(n), p)
-            seen = np.flatnonzero(counts)
-            values = group.values(seen)
-            weights = counts[seen]
-            mean = float(weights @ values) / n
+            mean, var = sample_group(self.rng, group, rotated_probabilities(state, group.basis, self.n_qubits), n)
             energy += mean
-            variance += float(weights @ (values - mean) ** 2) / (n - 1) / n
+            variance += var
         return float(energy), float(np.sqrt(variance))
 
     def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:

@@ -2,51 +2,18 @@
 
 from __future__ import annotations
 
-import json
 import math
 import os
-import tempfile
 from typing import Any
 
 from groundkit.errors import GroundkitError, ResultFileError
 from groundkit.molecule import MoleculeSpec
-from groundkit.persistence import _jsonable, result_from_dict, result_to_dict
+from groundkit.persistence import read_json, result_from_dict, result_to_dict, write_json_atomic
 
 from .scan_result import ScanPoint, ScanResult
 
 SCHEMA = "groundkit.scan-result"
 VERSION = 1
-
-
-def write_json_atomic(data: Any, path: str | os.PathLike) -> None:
-    """Write ``data`` as JSON via a temporary file in the same folder, flushed to disk, then renamed."""
-    text = json.dumps(data, indent=1, allow_nan=False, default=_jsonable)
-    folder = os.path.dirname(os.path.abspath(path))
-    fd, tmp = tempfile.mkstemp(prefix=".groundkit-", suffix=".tmp", dir=folder)
-    try:
-        with os.fdopen(fd, "w", encoding="utf-8") as fh:
-            fh.write(text)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.replace(tmp, path)
-    except BaseException:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
-        raise
-
-
-def read_json(path: str | os.PathLike, expected: str) -> Any:
-    """Parsed JSON of ``path``; ``ResultFileError`` naming ``expected`` when the file is not readable JSON."""
-    try:
-        with open(path, encoding="utf-8") as fh:
-            return json.load(fh)
-    except UnicodeDecodeError:
-        raise ResultFileError(f"{path}: not a text file; expected {expected} (JSON)") from None
-    except json.JSONDecodeError as err:
-        raise ResultFileError(
-            f"{path}: not valid JSON ({err.msg} at line {err.lineno}, column {err.colno}); the file may be "
-            f"truncated. Expected {expected}"
-        ) from None
 
 
 def molecule_to_dict(molecule: MoleculeSpec) -> dict[str, Any]:
