@@ -35,8 +35,11 @@ def compare(
     estimators: Sequence[Any] | None = None,
     minimisers: Sequence[Any] | None = None,
     executor: Any = None,
+    progress: bool = False,
 ) -> Any:
     """Run every combination on the pipeline's molecule and active space; returns a pandas DataFrame.
+
+    ``progress=True`` shows a tqdm bar, one step per finished combination.
 
     A list left out keeps the pipeline's own component. Columns: mapping, trial_state, estimator, minimiser,
     energy, reference, error (Ha), error_mha, within_chemical_accuracy (1.6 mHa; common practice, no single
@@ -63,9 +66,23 @@ def compare(
                   "minimiser": minimiser}
         return Task(molecule=molecule, components=chosen, extras=("shot_budget",))
 
-    with runner_for(executor) as runner:
-        run_chains(runner, [[k] for k in range(len(grid))], make_task,
-                   lambda k, answer: answers.__setitem__(k, answer), run_task)
+    bar = None
+    if progress:
+        from tqdm.auto import tqdm
+
+        bar = tqdm(total=len(grid), desc="combinations", unit="run", mininterval=0.5)
+
+    def finished(k: int, answer: dict) -> None:
+        answers[k] = answer
+        if bar is not None:
+            bar.update(1)
+
+    try:
+        with runner_for(executor) as runner:
+            run_chains(runner, [[k] for k in range(len(grid))], make_task, finished, run_task)
+    finally:
+        if bar is not None:
+            bar.close()
     defaults = pipeline.resolved_components()
     rows = []
     for k, combination in enumerate(grid):
