@@ -4,7 +4,7 @@ VENV := .venv
 BIN := $(VENV)/bin
 STAMP := $(VENV)/.installed
 
-.PHONY: demo test lint bench clean
+.PHONY: demo test lint bench clean docs
 
 $(STAMP): setup.cfg pyproject.toml
 	$(PYTHON) -m venv $(VENV)
@@ -20,6 +20,9 @@ lint: $(STAMP)
 
 test: $(STAMP) lint
 	$(BIN)/python -m pytest -q
+
+docs: $(STAMP)
+	$(BIN)/python docs/make_api.py
 
 bench: $(STAMP)
 	@for f in benchmarks/*.py; do echo "== $$f"; $(BIN)/python $$f || exit 1; done

@@ -49,11 +49,15 @@ def test_open_shell_doublet_matches_pyscf_casci():
 
 
 def test_charged_species_matches_pyscf_fci():
-    heh = diatomic("He", "H", 0.7743, charge=1, basis="6-31g")  # HeH+ near its equilibrium (from memory)
-    problem = heh.pipeline().problem()
-    mf = _pyscf_scf(heh)
-    e_fci, _ = fci.FCI(mf).kernel()
-    assert problem.n_electrons == 2
+    a = 1.02 / 3 ** 0.5  # ammonium NH4+, tetrahedral, r(NH) = 1.02 Å (a test geometry, from memory)
+    ammonium = gk.MoleculeSpec(symbols=("N", "H", "H", "H", "H"), charge=1, coordinates=(
+        (0, 0, 0), (a, a, a), (-a, -a, a), (-a, a, -a), (a, -a, -a)))
+    problem = ammonium.pipeline().problem()
+    mf = _pyscf_scf(ammonium)
+    solver = fci.FCI(mf)
+    solver.conv_tol = 1e-12
+    e_fci, _ = solver.kernel()
+    assert problem.n_electrons == 10 and problem.n_determinants == 15876  # C(9,5)^2
     assert problem.reference.energy == pytest.approx(e_fci, abs=1e-8)  # PySCF FCI (reference library)
 
 

@@ -87,6 +87,7 @@ def test_warm_start_converges_to_the_same_energy_in_fewer_iterations():
     w, c = warm.points[1], cold.points[1]
     assert w.start.startswith("warm") and c.start == "cold"
     assert w.result.energy == pytest.approx(c.result.energy, abs=1e-8)
+    # two electrons: UCCSD is exact (textbook); the reference is PySCF's FCI solver
     assert w.result.energy == pytest.approx(w.result.reference.energy, abs=1e-8)
     assert w.result.iterations < c.result.iterations
     assert 0.9 < w.orbital_match <= 1.0 + 1e-9
