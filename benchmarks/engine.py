@@ -84,21 +84,16 @@ def hand_composed_case() -> dict:
     """Water's UCCSD energy composed by hand: OpenFermion generator, Jordan-Wigner, expm_multiply on 2^14."""
     import numpy as np
     import scipy.sparse.linalg
-    from openfermion import InteractionOperator, get_sparse_operator, jordan_wigner, uccsd_generator
+    from openfermion import get_sparse_operator, jordan_wigner, uccsd_generator
 
     import groundkit as gk
     from groundkit.trial_states import UCCSD
 
     problem = gk.Problem(molecule("h2o"))
     n = problem.n_orbitals
-    one = np.zeros((2 * n, 2 * n))
-    two = np.zeros((2 * n,) * 4)
-    for s in (0, 1):
-        one[s::2, s::2] = problem.h1
-        for t in (0, 1):
-            two[s::2, t::2, t::2, s::2] = 0.5 * problem.h2.transpose(0, 2, 3, 1)
+    fermion_hamiltonian = problem.fermion_hamiltonian()
     t0 = time.perf_counter()
-    hamiltonian = get_sparse_operator(jordan_wigner(InteractionOperator(problem.core_energy, one, two)), 2 * n)
+    hamiltonian = get_sparse_operator(jordan_wigner(fermion_hamiltonian), 2 * n)
     t_hamiltonian = time.perf_counter() - t0
 
     plan = UCCSD().plan(problem)

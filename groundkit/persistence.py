@@ -89,14 +89,20 @@ def load_result(path: str | os.PathLike) -> RunResult:
     return result_from_dict(read_json(path, "a groundkit result saved by RunResult.save"), source=str(path))
 
 
+def check_schema(data: Any, schema: str, version: int, source: str, kind: str) -> None:
+    """``ResultFileError`` unless ``data`` is a dict carrying ``schema`` and ``version``; ``kind`` names the
+    expected content in the message ('result', 'scan')."""
+    if not isinstance(data, dict) or "schema" not in data:
+        raise ResultFileError(f"{source}: no 'schema' field; expected a groundkit {kind} with schema {schema!r}")
+    if data["schema"] != schema:
+        raise ResultFileError(f"{source}: schema {data['schema']!r} is not {schema!r}")
+    if data.get("version") != version:
+        raise ResultFileError(f"{source}: schema version {data.get('version')!r}; this groundkit reads {version}")
+
+
 def result_from_dict(data: Any, source: str = "data") -> RunResult:
     """Validate and rebuild a RunResult from :func:`result_to_dict` output."""
-    if not isinstance(data, dict) or "schema" not in data:
-        raise ResultFileError(f"{source}: no 'schema' field; expected a groundkit result with schema {SCHEMA!r}")
-    if data["schema"] != SCHEMA:
-        raise ResultFileError(f"{source}: schema {data['schema']!r} is not {SCHEMA!r}")
-    if data.get("version") != VERSION:
-        raise ResultFileError(f"{source}: schema version {data.get('version')!r}; this groundkit reads {VERSION}")
+    check_schema(data, SCHEMA, VERSION, source, "result")
     v = _Validator(source)
     history = v.obj(data, "history", dict)
     reference = v.obj(data, "reference", dict)

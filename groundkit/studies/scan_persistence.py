@@ -8,7 +8,7 @@ from typing import Any
 
 from groundkit.errors import GroundkitError, ResultFileError
 from groundkit.molecule import MoleculeSpec
-from groundkit.persistence import read_json, result_from_dict, result_to_dict, write_json_atomic
+from groundkit.persistence import check_schema, read_json, result_from_dict, result_to_dict, write_json_atomic
 
 from .scan_result import ScanPoint, ScanResult
 
@@ -84,12 +84,7 @@ def scan_to_dict(scan: ScanResult) -> dict[str, Any]:
 
 
 def scan_from_dict(data: Any, source: str = "data") -> ScanResult:
-    if not isinstance(data, dict) or "schema" not in data:
-        raise ResultFileError(f"{source}: no 'schema' field; expected a groundkit scan with schema {SCHEMA!r}")
-    if data["schema"] != SCHEMA:
-        raise ResultFileError(f"{source}: schema {data['schema']!r} is not {SCHEMA!r}")
-    if data.get("version") != VERSION:
-        raise ResultFileError(f"{source}: schema version {data.get('version')!r}; this groundkit reads {VERSION}")
+    check_schema(data, SCHEMA, VERSION, source, "scan")
     configuration, points = data.get("configuration"), data.get("points")
     if not isinstance(configuration, dict) or not all(isinstance(v, str) for v in configuration.values()):
         raise ResultFileError(f"{source}: field 'configuration' is {str(configuration)[:60]!r}; expected strings")
