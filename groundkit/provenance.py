@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import platform
 import sys
-from datetime import datetime, timezone
+from datetime import UTC, datetime
 from importlib import metadata
 from typing import Any
 
@@ -33,7 +33,7 @@ def provenance(configuration: dict[str, Any], components: dict[str, Any]) -> dic
         "versions": versions(),
         "platform": platform.platform(),
         "machine": platform.machine(),
-        "time": datetime.now(timezone.utc).isoformat(timespec="seconds"),
+        "time": datetime.now(UTC).isoformat(timespec="seconds"),
         "seeds": seeds_of(components),
         "configuration": configuration,
     }

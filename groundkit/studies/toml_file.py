@@ -14,18 +14,13 @@ from __future__ import annotations
 
 import os
 import re
-import sys
+import tomllib
 from dataclasses import dataclass
 from typing import Any
 
 from groundkit.errors import GroundkitError
 
 from .errors import StudyFileError
-
-if sys.version_info >= (3, 11):
-    import tomllib
-else:  # pragma: no cover
-    import tomli as tomllib
 
 KEYS: dict[str, tuple[str, ...]] = {
     "": ("title", "molecule", "active_space", "components", "scan", "output"),
