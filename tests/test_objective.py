@@ -9,6 +9,7 @@ from groundkit.errors import ComponentError, ParameterError, SizeLimitError
 from groundkit.objective import Objective
 from groundkit.sector.space import Sector
 from groundkit.trial_states import UCCSD, ExcitationList, HartreeFock, UpCCGSD
+from tests.outside_references import pyscf_exact, water
 from tests.sector.engine_problems import problem
 
 
@@ -149,9 +150,14 @@ def test_excitation_list_energy_matches_the_same_uccsd_parameters():
 def test_groundkit_problem_drives_the_engine(h2o):
     import groundkit as gk
 
+    outside = pyscf_exact(water())  # PySCF RHF and full CI of the test's own water molecule (reference library)
     p = gk.build_problem(h2o)
     objective = Objective(p, UCCSD(init="mp2"))
-    assert abs(Objective(p, HartreeFock()).energy([]) - p.scf_energy) < 1e-9  # PySCF (reference library) RHF
+    hf_energy = Objective(p, HartreeFock()).energy([])
+    assert abs(hf_energy - outside.hf) < 1e-9  # PySCF (reference library) RHF e_tot
+    assert abs(hf_energy - p.scf_energy) < 1e-9  # internal consistency
     result = scipy.optimize.minimize(objective.energy_and_gradient, objective.initial_parameters(), jac=True,
                                      method="BFGS")
-    assert 0 <= result.fun - p.reference.energy < 1.6e-3  # chemical accuracy: common practice, no single source
+    assert result.success
+    assert 0 <= result.fun - outside.exact < 1.6e-3  # PySCF FCI; chemical accuracy: common practice, no single source
+    assert outside.exact - outside.hf < -0.04  # PySCF: 50 mHa of correlation, far above the tolerance

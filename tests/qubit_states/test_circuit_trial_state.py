@@ -12,6 +12,7 @@ from groundkit.circuits import state_of
 from groundkit.errors import ComponentError, ParameterError
 from groundkit.qubit_states import CircuitTrialState, QubitObjective, QubitTrialState
 from tests.circuits.helpers import H2
+from tests.outside_references import diatomic, pyscf_exact
 
 a, b = sympy.symbols("a b")
 Q = cirq.LineQubit.range(4)
@@ -118,7 +119,8 @@ def test_subclass_hook_builds_from_the_encoding():
 
     pipeline = gk.Pipeline(H2).mapping(gk.QubitMapping("bravyi-kitaev", taper=True)).trial_state(Rotations())
     result = pipeline.run()
-    assert result.error == pytest.approx(0.0, abs=1e-6)  # one qubit: a single Ry reaches the exact state
+    exact = pyscf_exact(diatomic("H", "H", 0.7414)).exact  # PySCF FCI of H2's geometry (reference library)
+    assert result.energy == pytest.approx(exact, abs=1e-6)  # one qubit: a single Ry reaches the exact state
 
 
 def test_not_a_trial_state_is_refused():

@@ -9,6 +9,7 @@ import pytest
 
 import groundkit as gk
 from tests.circuits.helpers import H2
+from tests.outside_references import diatomic, pyscf_exact
 
 DOC = Path(__file__).parents[2] / "docs" / "circuits.md"
 
@@ -26,7 +27,12 @@ def namespace() -> dict:
 
 def test_user_circuit_reaches_the_exact_energy(namespace):
     result = namespace["result"]
-    assert result.error == pytest.approx(0.0, abs=1e-6)  # against PySCF's FCI
+    molecule = namespace["h2"]
+    assert (molecule.basis, molecule.distance(0, 1)) == ("sto-3g", pytest.approx(0.7414))  # the document's H2
+    exact = pyscf_exact(diatomic("H", "H", 0.7414)).exact  # PySCF FCI on the test's own molecule (reference library)
+    assert result.converged
+    assert result.energy == pytest.approx(exact, abs=1e-6)  # one angle spans the two-determinant singlet space
+    assert result.error == pytest.approx(result.energy - exact, abs=1e-9)  # the reported error, against PySCF
     assert result.within_chemical_accuracy  # 1.6 mHa, common practice
 
 

@@ -10,6 +10,7 @@ import groundkit as gk
 from groundkit.qubits import make_taper, qubitwise_commute, qwc_groups, z2_symmetries
 from groundkit.sector.strings import make_strings
 
+from .. import outside_references as outside
 from ..conftest import diatomic, water
 
 NH2_XYZ = "N 0 0 0\nH 0.8018 0 0.6370\nH -0.8018 0 0.6370"
@@ -26,13 +27,19 @@ def _pipelines():
 def test_h2_jordan_wigner_has_15_terms_and_tapers_to_one_qubit():
     h2 = diatomic("H", "H", 0.7414).pipeline()  # NIST CCCBDB experimental r_e (from memory)
     hamiltonian = h2.qubit_hamiltonian()
-    assert len(hamiltonian.terms) == 15  # common practice; OpenFermion's jordan_wigner as reference library
-    assert hamiltonian == pytest.approx(jordan_wigner(h2.problem().fermion_hamiltonian()))
+    # OpenFermion's jordan_wigner (reference library) on an InteractionOperator written out in the test from
+    # PySCF's MO integrals: the same 15 Pauli strings (identity included) with the same coefficients
+    expected = outside.openfermion_jordan_wigner(outside.diatomic("H", "H", 0.7414))
+    assert len(expected.terms) == 15  # common practice, no single source: 15 terms for H2 in a minimal basis
+    assert set(hamiltonian.terms) == set(expected.terms)
+    for term, coefficient in expected.terms.items():
+        assert hamiltonian.terms[term] == pytest.approx(coefficient, abs=1e-10)  # OpenFermion on PySCF integrals
+    assert hamiltonian == pytest.approx(jordan_wigner(h2.problem().fermion_hamiltonian()))  # internal consistency
     tapered = h2.mapping("jordan-wigner", taper=True)
     assert tapered.encoding().n_qubits == 1
     lowest = np.linalg.eigvalsh(get_sparse_operator(tapered.qubit_hamiltonian(), n_qubits=1).toarray())[0]
-    e_fci = fci.FCI(gk.chemistry.solve_scf(h2.problem().molecule)._mf).kernel()[0]
-    assert lowest == pytest.approx(e_fci, abs=1e-10)  # PySCF FCI (reference library)
+    e_fci = outside.pyscf_exact(outside.diatomic("H", "H", 0.7414)).exact
+    assert lowest == pytest.approx(e_fci, abs=1e-10)  # PySCF FCI on the test's own molecule (reference library)
 
 
 @pytest.mark.parametrize("name", list(_pipelines()))
@@ -53,7 +60,9 @@ def test_embedded_random_states_have_the_engine_energy(name, mapping, taper):
         e_pyscf = fci.direct_spin1.energy(problem.h1, problem.h2, ci, problem.n_orbitals,
                                           (problem.n_alpha, problem.n_beta)) + problem.core_energy
         assert np.linalg.norm(vector) == pytest.approx(1.0, abs=1e-12)
-        assert np.vdot(vector, hamiltonian @ vector).real == pytest.approx(e_pyscf, abs=1e-9)  # PySCF FCI energy
+        # PySCF's CI energy function on the problem's integrals: checks the mapping and the embedding (the
+        # integrals themselves are checked against PySCF in tests/test_chemistry.py)
+        assert np.vdot(vector, hamiltonian @ vector).real == pytest.approx(e_pyscf, abs=1e-9)
 
 
 @pytest.mark.parametrize("name", list(_pipelines()))
