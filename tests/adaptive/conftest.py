@@ -6,6 +6,7 @@ import pytest
 
 import groundkit as gk
 from groundkit.adaptive import Adaptive
+from tests.outside_references import OutsideReference, chain, pyscf_exact
 
 
 def hydrogen_chain(n_atoms: int, spacing: float) -> gk.MoleculeSpec:
@@ -18,6 +19,12 @@ def hydrogen_chain(n_atoms: int, spacing: float) -> gk.MoleculeSpec:
 def h4_stretched() -> gk.Pipeline:
     """H4 chain at 1.5 angstrom spacing: 8 spin orbitals, 36 determinants, strongly correlated."""
     return gk.Pipeline(hydrogen_chain(4, 1.5))
+
+
+@pytest.fixture(scope="session")
+def h4_exact() -> OutsideReference:
+    """PySCF RHF and full CI of the same H4 chain, built in the test (reference library): 167 mHa of correlation."""
+    return pyscf_exact(chain(4, 1.5))
 
 
 @pytest.fixture(scope="session")

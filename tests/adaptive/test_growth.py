@@ -10,33 +10,35 @@ import groundkit as gk
 from groundkit.adaptive import Adaptive, ExcitationPool, grown_sequence, grown_trial_state, growth_steps, growth_table
 from groundkit.objective import Objective
 
+from tests.outside_references import chain, pyscf_exact
+
 from .conftest import hydrogen_chain
 
 CHEMICAL_ACCURACY = 1.6e-3  # Hartree; common practice, no single source
 
 
-def test_reaches_the_exact_reference_with_fewer_parameters_than_uccsd(h4_stretched, h4_grown):
+def test_reaches_the_exact_reference_with_fewer_parameters_than_uccsd(h4_stretched, h4_grown, h4_exact):
     # Grimsley, Economou, Barnes, Mayhall, Nat. Commun. 10, 3007 (2019): the adaptive state reaches chemical
-    # accuracy with fewer parameters than UCCSD (the qualitative finding); exact reference: PySCF FCI
-    exact = h4_stretched.problem().reference.energy
+    # accuracy with fewer parameters than UCCSD (the qualitative finding); exact reference: PySCF FCI in the test
     uccsd_parameters = h4_stretched.trial_state(gk.UCCSD()).objective().n_parameters
-    assert h4_grown.energy - exact == pytest.approx(h4_grown.error)
-    assert -1e-10 <= h4_grown.error <= CHEMICAL_ACCURACY
+    assert h4_exact.correlation > 0.1  # PySCF: 167 mHa to recover, far above chemical accuracy
+    assert -1e-10 <= h4_grown.energy - h4_exact.exact <= CHEMICAL_ACCURACY  # PySCF FCI (reference library)
+    assert h4_grown.error == pytest.approx(h4_grown.energy - h4_exact.exact, abs=1e-9)  # the reported error
     assert len(h4_grown.parameters) < uccsd_parameters == 26
     assert h4_grown.converged and "gradient_threshold" in h4_grown.stop_reason
-    assert abs(h4_grown.spin_square) < 1e-6  # a singlet, like the exact state (PySCF FCI, <S^2> = 0)
+    assert abs(h4_grown.spin_square - h4_exact.spin_square) < 1e-6  # a singlet, like PySCF's FCI state
 
 
-def test_growth_records(h4_stretched, h4_grown):
+def test_growth_records(h4_stretched, h4_grown, h4_exact):
     steps = growth_steps(h4_grown)
-    exact = h4_stretched.problem().reference.energy
     assert [s.step for s in steps] == list(range(len(steps)))
     assert steps[0].label == "reference" and steps[0].operators == () and steps[0].gradient is None
-    assert steps[0].energy == pytest.approx(h4_stretched.problem().hf_energy, abs=1e-10)
+    assert steps[0].energy == pytest.approx(h4_exact.hf, abs=1e-9)  # PySCF RHF (reference library)
+    assert steps[0].energy == pytest.approx(h4_stretched.problem().hf_energy, abs=1e-10)  # internal consistency
     for s in steps[1:]:
         assert len(s.operators) == 1 and s.parameters == s.step
         assert abs(s.gradient) <= s.gradient_norm + 1e-15 and s.gradient_norm >= 1e-3
-        assert s.error == pytest.approx(s.energy - exact, abs=1e-12)
+        assert s.error == pytest.approx(s.energy - h4_exact.exact, abs=1e-9)  # against PySCF FCI
     assert steps[-1].energy == pytest.approx(h4_grown.energy, abs=1e-12)
     assert h4_grown.resources.parameters == len(h4_grown.parameters) == len(steps) - 1
     assert len(h4_grown.parameter_labels) == len(h4_grown.parameters)
@@ -65,10 +67,10 @@ def test_warm_start_begins_at_the_previous_energy(h4_stretched):
         assert first.energy <= last.energy + 1e-12  # the new step starts where the previous one ended
 
 
-def test_full_pool_without_cap_is_at_or_below_uccsd(h4_stretched, h4_uccsd):
+def test_full_pool_without_cap_is_at_or_below_uccsd(h4_stretched, h4_uccsd, h4_exact):
     result = h4_stretched.trial_state(Adaptive(gradient_threshold=1e-5)).run()
     assert result.energy <= h4_uccsd.energy + 1e-6
-    assert result.error < 1e-4  # PySCF FCI; repeats let the sequence go past UCCSD's product
+    assert -1e-10 <= result.energy - h4_exact.exact < 1e-4  # PySCF FCI; repeats let it go past UCCSD's product
 
 
 def test_operator_cap(h4_stretched):
@@ -108,8 +110,8 @@ def test_reuse_at_a_neighbouring_geometry(h4_grown):
     result = neighbour.trial_state(adaptive).run(initial_parameters=h4_grown.parameters)
     steps = growth_steps(result)
     assert len(steps[0].operators) == len(sequence)
-    correlation = neighbour.problem().hf_energy - neighbour.problem().reference.energy  # PySCF FCI
-    assert steps[0].error <= 0.02 * correlation  # the reused sequence, re-minimised, keeps 98% of it at 1.55 angstrom
+    exact = pyscf_exact(chain(4, 1.55))  # PySCF RHF and FCI at the neighbouring geometry (reference library)
+    assert steps[0].energy - exact.exact <= 0.02 * exact.correlation  # the reused sequence keeps 98% of it
     assert grown_sequence(result)[: len(sequence)] == sequence
     assert len(steps) > 1 and result.energy <= steps[0].energy  # growth went on from the reused sequence
 
@@ -179,7 +181,8 @@ def test_gate_counts_follow_the_grown_circuit(h4_grown):
     assert h4_grown.resources.two_qubit_gates == counts[-1]
 
 
-def test_generalised_pool_reaches_the_exact_state(h4_stretched):
+def test_generalised_pool_reaches_the_exact_state(h4_stretched, h4_exact):
     result = h4_stretched.trial_state(Adaptive(pool="generalised")).run()
-    assert -1e-10 <= result.error < 1e-5  # PySCF FCI
+    assert result.converged
+    assert -1e-10 <= result.energy - h4_exact.exact < 1e-5  # PySCF FCI (reference library)
     assert len(result.parameters) < h4_stretched.trial_state(gk.UCCSD()).objective().n_parameters

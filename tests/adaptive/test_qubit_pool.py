@@ -1,4 +1,4 @@
-"""The qubit pool (Tang, Shkolnikov, Barron, Grimsley, Mayhall, Economou, Barnes, PRX Quantum 2, 020310 (2021)):
+"""The qubit pool (Tang, Shkolnikov, Barron, Grimsley, Mayhall, Barnes, Economou, PRX Quantum 2, 020310 (2021)):
 its strings, the PauliRotations state against Cirq and the gate-by-gate route, pool gradients against central
 differences, growth to the exact reference under Jordan-Wigner and a tapered parity register, records on disk,
 and refused input."""
@@ -26,6 +26,8 @@ from groundkit.circuits import circuit_resources, state_of
 from groundkit.qubit_states import PauliRotations, QubitObjective
 from groundkit.qubit_states.program import StateProgram
 from groundkit.sector.space import lowest_strings
+
+from tests.outside_references import chain, pyscf_exact
 
 from .conftest import hydrogen_chain
 
@@ -111,7 +113,8 @@ def test_pool_gradients_match_central_differences(mapping, pool):
 @pytest.mark.parametrize("mapping", ["jordan-wigner", TAPERED_PARITY])
 def test_h2_reaches_the_exact_reference(h2, mapping):
     result = h2.mapping(mapping).trial_state(Adaptive(pool=QubitPool())).run()
-    assert abs(result.error) <= 1e-8  # PySCF FCI: one double-type string is exact for minimal-basis H2
+    exact = pyscf_exact(chain(2, 0.7414)).exact  # PySCF FCI of the test's own H2 (reference library)
+    assert abs(result.energy - exact) <= 1e-8  # one double-type string is exact for minimal-basis H2
     assert result.converged and "gradient_threshold" in result.stop_reason
     assert isinstance(grown_trial_state(result), PauliRotations)
 
@@ -126,7 +129,9 @@ def test_h4_chain_reaches_chemical_accuracy_with_fewer_gates(h4_qubit_grown):
     # Tang et al., PRX Quantum 2, 020310 (2021): the qubit pool needs fewer two-qubit gates than the fermionic
     # pool for the same accuracy (the qualitative finding); exact reference: PySCF FCI
     pipeline, result = h4_qubit_grown
-    assert -1e-9 <= result.error <= CHEMICAL_ACCURACY and result.converged
+    exact = pyscf_exact(chain(4, 1.5))  # PySCF RHF and FCI of the same chain (reference library)
+    assert -1e-9 <= result.energy - exact.exact <= CHEMICAL_ACCURACY and result.converged  # against PySCF FCI
+    assert result.error == pytest.approx(result.energy - exact.exact, abs=1e-9)  # the errors below use it
     fermionic = pipeline.trial_state(Adaptive()).run()
 
     def gates_at_accuracy(run) -> int:
@@ -135,7 +140,7 @@ def test_h4_chain_reaches_chemical_accuracy_with_fewer_gates(h4_qubit_grown):
     assert gates_at_accuracy(result) < gates_at_accuracy(fermionic) / 3
     objective = result_objective(pipeline, result)
     assert objective.particle_number(result.parameters) == pytest.approx(4.0, abs=1e-4)  # stays near N = 4
-    assert abs(result.spin_square) < 1e-4  # a singlet, like the exact state (PySCF FCI, <S^2> = 0)
+    assert abs(result.spin_square - exact.spin_square) < 1e-4  # a singlet, like PySCF's FCI state
 
 
 def result_objective(pipeline: gk.Pipeline, result) -> QubitObjective:
@@ -203,7 +208,7 @@ def test_a_pool_on_another_mapping_is_refused(h2):
     with pytest.raises(gk.ComponentError, match="built on QubitMapping\\('parity'\\)"):
         h2.trial_state(Adaptive(pool=QubitPool(mapping="parity"))).run()
     result = h2.mapping("parity").trial_state(Adaptive(pool=QubitPool(mapping="parity"))).run()
-    assert abs(result.error) < 1e-8
+    assert abs(result.energy - pyscf_exact(chain(2, 0.7414)).exact) < 1e-8  # PySCF FCI (reference library)
 
 
 @pytest.mark.parametrize("make, match", [
