@@ -3,11 +3,13 @@ import subprocess
 import sys
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 from groundkit.cli import main
 from groundkit.studies import StudyFileError, load_scan
 from groundkit.studies.toml_file import read_study
+from tests.studies.helpers import pyscf_fci_curve
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -46,7 +48,9 @@ def test_a_scan_study_writes_results_and_a_summary(tmp_path, capsys):
     out = tmp_path / "out"
     scan = load_scan(out / "scan.json")
     assert [round(p.value, 10) for p in scan.points] == [0.6, 0.7, 0.8, 0.9]
-    assert all(abs(p.result.error) < 1e-8 for p in scan.points)
+    exact = pyscf_fci_curve(np.array([0.6, 0.7, 0.8, 0.9]))  # PySCF FCI on the test's own molecules (reference library)
+    assert [p.result.energy for p in scan.points] == pytest.approx(exact, abs=1e-8)  # UCCSD exact for 2 electrons
+    assert all(abs(p.result.error) < 1e-8 for p in scan.points)  # internal consistency: the reported errors
     assert scan.points[2].molecule.distance(0, 1) == pytest.approx(0.8)
     assert (out / "summary.csv").read_text().startswith("value,energy,reference,error_mha")
     assert "H2 stretch" in (out / "summary.txt").read_text()

@@ -8,6 +8,9 @@ import pytest
 
 import groundkit as gk
 from groundkit.persistence import SCHEMA, VERSION
+from tests.outside_references import diatomic, pyscf_exact
+
+BOHR = 0.529177210903  # angstrom (CODATA 2018, from memory)
 
 
 @pytest.fixture(scope="module")
@@ -17,8 +20,11 @@ def result(h2_bohr):
 
 def test_result_carries_its_reference(result, h2_bohr):
     problem = h2_bohr.pipeline().problem()
-    assert result.reference.energy == problem.reference.energy
-    assert result.error == pytest.approx(result.energy - problem.reference.energy)
+    assert result.reference.energy == problem.reference.energy  # internal consistency: the problem's reference
+    exact = pyscf_exact(diatomic("H", "H", 1.4 * BOHR)).exact  # PySCF FCI at 1.4 bohr (reference library)
+    assert result.reference.energy == pytest.approx(exact, abs=1e-9)
+    assert result.reference.energy == pytest.approx(-1.1373, abs=1e-4)  # Szabo & Ostlund, full CI (from memory)
+    assert result.error == pytest.approx(result.energy - exact, abs=1e-9)  # against PySCF FCI
     assert result.within_chemical_accuracy  # 1.6 mHa, common practice, no single source
     assert result.baselines["hf"] == pytest.approx(-1.1167, abs=1e-4)  # Szabo & Ostlund (from memory)
     assert result.fidelity == pytest.approx(1.0, abs=1e-8)  # UCCSD is exact for two electrons (textbook)

@@ -9,7 +9,6 @@ import pytest
 import groundkit as gk
 from groundkit.adaptive import Adaptive, ExcitationPool, grown_sequence, grown_trial_state, growth_steps, growth_table
 from groundkit.objective import Objective
-
 from tests.outside_references import chain, pyscf_exact
 
 from .conftest import hydrogen_chain

@@ -26,7 +26,6 @@ from groundkit.circuits import circuit_resources, state_of
 from groundkit.qubit_states import PauliRotations, QubitObjective
 from groundkit.qubit_states.program import StateProgram
 from groundkit.sector.space import lowest_strings
-
 from tests.outside_references import chain, pyscf_exact
 
 from .conftest import hydrogen_chain

@@ -1,9 +1,10 @@
+import numpy as np
 import pytest
 
 import groundkit as gk
 from groundkit.studies import ScanInputError
 
-from .helpers import h2
+from .helpers import h2, pyscf_fci_curve
 
 
 def test_every_combination_is_a_row():
@@ -15,7 +16,9 @@ def test_every_combination_is_a_row():
                    "within_chemical_accuracy", "qubits", "parameters", "two_qubit_gates", "shot_budget",
                    "converged", "iterations", "wall_time", "failure"):
         assert column in table
-    assert table["within_chemical_accuracy"].all()  # H2: UCCSD and pUCCD are exact for two electrons
+    (exact,) = pyscf_fci_curve(np.array([0.74]))  # PySCF FCI on the test's own molecule (reference library)
+    assert (table["energy"] - exact).abs().max() < 1e-6  # H2: UCCSD and pUCCD are exact for two electrons
+    assert table["within_chemical_accuracy"].all()  # internal consistency: the verdict column agrees
     assert table["shot_budget"].isna().all()  # exact estimator: no shots
     assert set(table["estimator"]) == {"ExactEstimator()"}  # left out: the pipeline's own (default) estimator
     # the mapping does not change the determinant-space energy
