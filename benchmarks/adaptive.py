@@ -6,7 +6,8 @@ singles-and-doubles pool, with the generalised pool and with the qubit pool (Pau
 and doubles, Z factors dropped; Tang et al., PRX Quantum 2, 020310 (2021)), the last also on a tapered parity
 register: the first step within chemical accuracy (1.6 mHa, common practice, no single source), its operator and
 gate counts, and where the growth stopped. Geometries: NIST CCCBDB
-experimental bond lengths (from memory); the hydrogen chain is stretched to 1.5 angstrom spacing.
+experimental bond lengths (from memory; LiH 1.5949 Å as CCCBDB lists it, Huber-Herzberg via the NIST WebBook
+reads 1.5957 Å); the hydrogen chain is stretched to 1.5 angstrom spacing.
 Run: ``OPENBLAS_NUM_THREADS=1 python benchmarks/adaptive.py`` (prints a table; nothing is asserted).
 """
 

@@ -16,8 +16,9 @@ import groundkit as gk
 from groundkit.circuits import circuit_resources
 from groundkit.qubit_states import HardwareEfficient
 
-H2 = gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.7414)), name="H2")  # CCCBDB r_e
-LIH = gk.MoleculeSpec(symbols=("Li", "H"), coordinates=((0, 0, 0), (0, 0, 1.5949)), name="LiH")  # CCCBDB r_e
+# r_e as listed by NIST CCCBDB (from memory); for LiH, Huber-Herzberg via the NIST WebBook reads 1.5957 Å
+H2 = gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.7414)), name="H2")
+LIH = gk.MoleculeSpec(symbols=("Li", "H"), coordinates=((0, 0, 0), (0, 0, 1.5949)), name="LiH")
 SEEDS = range(5)
 
 

@@ -30,7 +30,8 @@ def h2_bohr() -> gk.MoleculeSpec:
 
 @pytest.fixture(scope="session")
 def lih() -> gk.MoleculeSpec:
-    return diatomic("Li", "H", 1.5949)  # NIST CCCBDB experimental r_e (from memory)
+    """LiH at 1.5949 Å: r_e as listed by NIST CCCBDB (from memory; Huber-Herzberg via the NIST WebBook: 1.5957 Å)."""
+    return diatomic("Li", "H", 1.5949)
 
 
 @pytest.fixture(scope="session")

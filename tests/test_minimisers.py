@@ -293,7 +293,9 @@ def test_spsa_gains_follow_spall():
     spsa = SPSA(a=0.2, c=0.1, A=10.0)
     a0, c0 = spsa.gains(0)
     a5, c5 = spsa.gains(5)
-    assert a0 == pytest.approx(0.2 / 11.0**0.602) and c0 == pytest.approx(0.1)  # Spall (1998), eq. for a_k, c_k
+    # gain sequences a_k, c_k of J. C. Spall, IEEE Transactions on Aerospace and Electronic Systems 34(3), 817-823
+    # (1998) (from memory)
+    assert a0 == pytest.approx(0.2 / 11.0**0.602) and c0 == pytest.approx(0.1)  # Spall (1998), IEEE TAES 34, 817
     assert a5 == pytest.approx(0.2 / 16.0**0.602) and c5 == pytest.approx(0.1 / 6.0**0.101)
     assert SPSA(max_iterations=300).stability == 30.0
 

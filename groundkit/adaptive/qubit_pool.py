@@ -1,5 +1,5 @@
 """The qubit pool: individual Pauli strings of the mapped fermionic generators (Tang, Shkolnikov, Barron, Grimsley,
-Mayhall, Economou, Barnes, PRX Quantum 2, 020310 (2021)).
+Mayhall, Barnes, Economou, PRX Quantum 2, 020310 (2021)).
 
 Each generator G = tau - tau^dagger of a fermionic source pool is encoded with the pipeline's encoding (mapping,
 then tapering), G -> i * sum_k c_k P_k with real c_k; the pool holds every distinct string P_k, with its Z factors

@@ -1,5 +1,7 @@
-"""Simultaneous perturbation stochastic approximation (Spall, IEEE Trans. Aerosp. Electron. Syst. 34, 817
-(1998)), for energies that are noisy (sampled) as well as exact.
+"""Simultaneous perturbation stochastic approximation, for energies that are noisy (sampled) as well as exact.
+
+J. C. Spall, "Implementation of the simultaneous perturbation algorithm for stochastic optimization", IEEE
+Transactions on Aerospace and Electronic Systems 34(3), 817-823 (1998) (from memory).
 """
 
 from __future__ import annotations

@@ -10,7 +10,8 @@ from groundkit.errors import SymmetryError
 
 MAPPINGS = ("jordan-wigner", "bravyi-kitaev", "parity")
 
-# experimental equilibrium bond lengths, NIST CCCBDB (from memory)
+# experimental equilibrium bond lengths as listed by NIST CCCBDB (from memory); for LiH, Huber-Herzberg via the
+# NIST WebBook reads 1.5957 Å
 H2 = gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.7414)), name="H2")
 LIH = gk.MoleculeSpec(symbols=("Li", "H"), coordinates=((0, 0, 0), (0, 0, 1.5949)), name="LiH")
 

@@ -29,7 +29,8 @@ def chain(n_atoms: int, spacing: float) -> str:
 
 GEOMETRIES = {
     "h2": ("H 0 0 0; H 0 0 0.7414", 0, None),  # NIST CCCBDB experimental r(H-H)
-    "lih": ("Li 0 0 0; H 0 0 1.5949", 0, None),  # NIST CCCBDB experimental r(Li-H)
+    # LiH: r_e as listed by NIST CCCBDB (from memory; Huber-Herzberg via the NIST WebBook: 1.5957 Å)
+    "lih": ("Li 0 0 0; H 0 0 1.5949", 0, None),
     "h2o": (water(), 0, None),  # NIST CCCBDB experimental r(O-H), angle(H-O-H)
     "h2o_cas44": (water(), 0, (4, 4)),
     "h4": (chain(4, 1.0), 0, None),

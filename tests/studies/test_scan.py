@@ -31,7 +31,7 @@ def test_each_point_equals_a_single_run(scan):
     for point in scan.points:
         single = gk.Pipeline(h2(point.value)).trial_state(gk.UCCSD()).run()
         assert point.result.energy == pytest.approx(single.energy, abs=1e-9)
-        # internal consistency: the scan's reference is the single run's (both checked against PySCF elsewhere)
+        # internal consistency: the scan point and the single run share one reference (PySCF checks: test_cli.py)
         assert point.result.reference.energy == pytest.approx(single.reference.energy, abs=1e-12)
 
 

@@ -18,5 +18,6 @@ def h2_pipeline() -> gk.Pipeline:
 
 @pytest.fixture(scope="session")
 def lih_pipeline() -> gk.Pipeline:
+    # r_e as listed by NIST CCCBDB (from memory; Huber-Herzberg via the NIST WebBook: 1.5957 Å)
     lih = gk.MoleculeSpec(symbols=("Li", "H"), coordinates=((0, 0, 0), (0, 0, 1.5949)), name="lithium hydride")
     return gk.Pipeline(lih).active_space(electrons=2, orbitals=3)
