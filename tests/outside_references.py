@@ -18,7 +18,9 @@ from openfermion import InteractionOperator, QubitOperator, jordan_wigner
 from pyscf import ao2mo, gto, mcscf, scf
 from pyscf.fci import cistring, spin_op
 
-ROOTS = 6  # roots asked of PySCF's CI solver; the lowest one of the requested spin is kept
+# Roots asked of PySCF's CI solver: the lowest of them with the requested spin is kept. They are the lowest roots of
+# the whole Sz block, so the kept one is the lowest state of that spin; if none has it, the lookup raises.
+ROOTS = 3
 
 
 def chain(n_atoms: int, spacing: float) -> str:
