@@ -90,7 +90,7 @@ class ScanResult:
             row["iterations"] = r.iterations if r else 0
             row["parameters"] = np.array(r.parameters) if r else np.zeros(0)
             row["wall_time"] = p.wall_time
-            stderr = getattr(r, "standard_error", None) if r else None
+            stderr = r.standard_error if r else None
             any_stderr = any_stderr or bool(stderr)
             row["stderr"] = np.nan if stderr is None else stderr
             row["start"] = p.start
