@@ -39,6 +39,12 @@ class ActiveSpace:
     occupation_window: tuple[float, float] = MP2_OCCUPATION_WINDOW
 
     def __post_init__(self) -> None:
+        if not isinstance(self.frozen_core, (bool, np.bool_)):
+            raise ActiveSpaceError(
+                f"frozen_core={self.frozen_core!r} is not accepted; give True or False (a bool, not "
+                f"{type(self.frozen_core).__name__})"
+            )
+        object.__setattr__(self, "frozen_core", bool(self.frozen_core))
         for name in ("electrons", "orbitals"):
             value = getattr(self, name)
             if value is not None and (not _is_int(value) or value < (1 if name == "orbitals" else 0)):

@@ -41,22 +41,24 @@ def as_mapping(value: Any, **options: Any) -> QubitMapping:
 
 def as_trial_state(value: Any, **options: Any) -> Any:
     """A trial state from an instance or a name ('uccsd', 'puccd', 'upccgsd', 'hartree-fock', 'adaptive',
-    'hardware-efficient')."""
+    'hardware-efficient', 'excitation-list' with ``excitations=[...]``, 'pauli-rotations' with
+    ``strings=[...]``)."""
     from .adaptive import Adaptive
-    from .qubit_states import HardwareEfficient, QubitTrialState
-    from .trial_states import PUCCD, UCCSD, HartreeFock, TrialState, UpCCGSD
+    from .qubit_states import HardwareEfficient, PauliRotations, QubitTrialState
+    from .trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, TrialState, UpCCGSD
 
     table = {"uccsd": UCCSD, "puccd": PUCCD, "upccgsd": UpCCGSD, "k-upccgsd": UpCCGSD, "hf": HartreeFock,
-             "hartree-fock": HartreeFock, "adaptive": Adaptive, "hardware-efficient": HardwareEfficient}
+             "hartree-fock": HartreeFock, "adaptive": Adaptive, "hardware-efficient": HardwareEfficient,
+             "excitation-list": ExcitationList, "pauli-rotations": PauliRotations}
     return _component("trial state", value, (TrialState, QubitTrialState), _from_table("trial state", table),
                       options)
 
 
 def as_estimator(value: Any, **options: Any) -> Estimator:
-    """An estimator from an instance or a name ('exact', 'sampled')."""
-    from .estimators import SampledEstimator
+    """An estimator from an instance or a name ('exact', 'sampled', 'noisy')."""
+    from .estimators import NoisyEstimator, SampledEstimator
 
-    table = {"exact": ExactEstimator, "sampled": SampledEstimator}
+    table = {"exact": ExactEstimator, "sampled": SampledEstimator, "noisy": NoisyEstimator}
     return _component("estimator", value, Estimator, _from_table("estimator", table), options)
 
 

@@ -2,7 +2,8 @@
 
 ``Objective(problem, trial_state)`` builds, once, the sector of the problem's electron numbers, the excitation
 tables of the trial state, the Hamiltonian contraction and the reference determinant, and reuses them in every
-call. Energies are in Hartree and include ``problem.core_energy``; parameters are angles in radians.
+call. Energies are in Hartree and include ``problem.core_energy``; parameters are angles in radians. It implements
+:class:`groundkit.energy_surface.EnergySurface`; warm starts across geometries match orbitals by overlap.
 """
 
 from __future__ import annotations
@@ -11,7 +12,8 @@ from typing import Any
 
 import numpy as np
 
-from groundkit.errors import ComponentError, ParameterError
+from groundkit.energy_surface import EnergySurface, WarmStart, handover_kind
+from groundkit.errors import ComponentError, ParameterError, SymmetryError
 from groundkit.sector.adjoint import energy_and_angle_gradient
 from groundkit.sector.exponential import apply_product
 from groundkit.sector.hamiltonian import SectorHamiltonian
@@ -22,12 +24,14 @@ from groundkit.sector.tables import excitation_tables
 from groundkit.trial_states.base import ExcitationPlan, TrialState
 
 
-class Objective:
-    """E(theta) = <psi(theta)|H|psi(theta)> for a fermionic trial state on a problem (duck-typed).
+class Objective(EnergySurface):
+    """E(theta) = <psi(theta)|H|psi(theta)> for a fermionic trial state on a problem.
 
-    The problem needs ``n_orbitals``, ``n_alpha``, ``n_beta``, ``h1``, ``h2`` (chemists' notation, Hartree) and
-    ``core_energy`` (Hartree). ``plan`` replaces the trial state's own plan (e.g. restricted to a symmetry
-    sector by :func:`groundkit.qubits.sector_plan`).
+    Energies, gradients and amplitudes need only ``n_orbitals``, ``n_alpha``, ``n_beta``, ``h1``, ``h2``
+    (chemists' notation, Hartree) and ``core_energy`` (Hartree) of the problem; :meth:`exact_state` needs its
+    ``reference`` and the warm starts its SCF orbitals (a :class:`~groundkit.problem.Problem` has both).
+    ``plan`` replaces the trial state's own plan (e.g. restricted to a symmetry sector by
+    :func:`groundkit.qubits.sector_plan`).
     """
 
     def __init__(self, problem: Any, trial_state: TrialState, *, max_determinants: int = MAX_DETERMINANTS,
@@ -108,9 +112,41 @@ class Objective:
         )
         return energy + self.hamiltonian.core_energy, self.plan.parameter_gradient(angle_gradient)
 
-    def estimate(self, theta: Any) -> tuple[float, float]:
-        """(E(theta), standard error) in Hartree; the determinant-space energy is exact, so the error is 0."""
-        return self.energy(theta), 0.0
+    def exact_state(self) -> np.ndarray:
+        """The problem's exact reference as a CI array of this objective's sector."""
+        return np.asarray(self.problem.reference.ci)
+
+    def register_state(self, theta: Any, encoding: Any) -> np.ndarray:
+        """psi(theta) embedded on ``encoding``'s register; SymmetryError if weight falls outside a tapered sector."""
+        vector = encoding.embed(self.state(theta))
+        lost = 1.0 - float(np.vdot(vector, vector).real)
+        if lost > 1e-9:
+            raise SymmetryError(
+                f"the trial state has weight {lost:.3g} outside the tapered symmetry sector of {encoding.mapping!r}; "
+                "build the objective through the pipeline (it keeps symmetry-conserving excitations only)"
+            )
+        return vector
+
+    def particle_number(self, theta: Any) -> float:
+        """<N> of psi(theta): every determinant of the sector holds the problem's electrons, so N times the norm."""
+        psi = self.state(theta)
+        return float(self.sector.n_alpha + self.sector.n_beta) * float(np.vdot(psi, psi).real)
+
+    def handover(self, theta: Any) -> dict[str, Any]:
+        """Active orbitals, excitations and parameters (radians) at ``theta``, for a warm start by orbital matching."""
+        from groundkit.studies.orbitals import orbital_handover
+
+        return orbital_handover(self.problem, self.plan, self.check_parameters(theta))
+
+    def warm_start(self, previous: Any, handover: dict[str, Any]) -> WarmStart:
+        """Parameters carried from ``handover`` (of the molecule ``previous``) after matching the active orbitals of
+        both geometries by overlap (phases and order fixed); excitations with no counterpart start at zero."""
+        from groundkit.studies.orbitals import orbital_warm_start
+
+        kind = handover_kind(handover)
+        if kind != "orbital-matching":
+            return WarmStart.cold(f"previous point hands over by {kind}, this trial state needs orbital matching")
+        return orbital_warm_start(self.problem, self.plan, previous, handover)
 
     def spin_square(self, theta: Any) -> float:
         """<S^2> of psi(theta)."""

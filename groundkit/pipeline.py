@@ -14,6 +14,7 @@ from typing import Any
 
 from . import components as _c
 from .active_space import ActiveSpace
+from .energy_surface import EnergySurface
 from .errors import ComponentError
 from .estimators import Estimator, ExactEstimator
 from .mapping import QubitMapping
@@ -109,8 +110,9 @@ class Pipeline:
             raise ComponentError("this pipeline has no molecule yet; use Pipeline(molecule) or .molecule(spec)")
         return build_problem(molecule, self._components.active_space)
 
-    def objective(self) -> Any:
-        """E(θ) and ∇E(θ) of the trial state on the problem (shared between pipelines with equal choices)."""
+    def objective(self) -> EnergySurface:
+        """E(θ) and ∇E(θ) of the trial state on the problem, exact (shared between pipelines with equal choices,
+        whatever their estimator); the estimator's values come from :meth:`measurement`."""
         from .objective import Objective
 
         problem = self.problem()
@@ -146,7 +148,7 @@ class Pipeline:
 
         return encoding_for(self.problem(), self.resolved_components()["mapping"])
 
-    def _qubit_objective(self, trial_state: Any) -> Any:
+    def _qubit_objective(self, trial_state: Any) -> EnergySurface:
         """The shared QubitObjective of a qubit trial state under this pipeline's encoding."""
         from .qubit_states import QubitObjective
 

@@ -13,6 +13,30 @@ import numpy as np
 
 CHEMICAL_ACCURACY = 1.6e-3  # Hartree (1 kcal/mol = 1.5936 mHa); common practice, no single source
 
+VERDICT_WORDING = {
+    "within": "within chemical accuracy",
+    "outside": "outside chemical accuracy",
+    "uncertain": "chemical accuracy uncertain at 2 sigma",
+}
+"""The one wording of each verdict (see :attr:`RunResult.verdict`), used by summaries, HTML, widgets, tables and
+the command line alike."""
+
+
+def verdict_of(error: float, standard_error: float = 0.0) -> str:
+    """'within', 'outside' or 'uncertain': |error| against chemical accuracy (1.6 mHa) at two standard errors
+    (both in Ha). With a zero standard error the verdict is 'within' or 'outside'."""
+    margin = 2.0 * standard_error
+    if abs(error) + margin <= CHEMICAL_ACCURACY:
+        return "within"
+    if abs(error) - margin > CHEMICAL_ACCURACY:
+        return "outside"
+    return "uncertain"
+
+
+def verdict_text(verdict: str) -> str:
+    """The wording of a verdict, e.g. 'chemical accuracy uncertain at 2 sigma'."""
+    return VERDICT_WORDING[verdict]
+
 
 @dataclass(frozen=True)
 class History:
@@ -88,8 +112,10 @@ class RunResult:
 
     @property
     def within_chemical_accuracy(self) -> bool:
-        """|error| <= 1.6 mHa (chemical accuracy; common practice, no single source)."""
-        return abs(self.error) <= CHEMICAL_ACCURACY
+        """True when the :attr:`verdict` is 'within': |error| + 2 standard errors <= 1.6 mHa (chemical accuracy;
+        common practice, no single source). For exact estimators that is |error| <= 1.6 mHa; a sampled result
+        whose interval straddles the threshold is not claimed within (its verdict says 'uncertain')."""
+        return self.verdict == "within"
 
     @property
     def estimator_bias(self) -> float | None:
@@ -99,12 +125,7 @@ class RunResult:
     @property
     def verdict(self) -> str:
         """'within', 'outside' or 'uncertain': chemical accuracy judged at two standard errors."""
-        margin = 2.0 * self.standard_error
-        if abs(self.error) + margin <= CHEMICAL_ACCURACY:
-            return "within"
-        if abs(self.error) - margin > CHEMICAL_ACCURACY:
-            return "outside"
-        return "uncertain"
+        return verdict_of(self.error, self.standard_error)
 
     @property
     def iterations(self) -> int:
@@ -113,7 +134,7 @@ class RunResult:
     def summary(self) -> str:
         """Plain-text table: energy, reference, error, verdict, baselines, state, resources, convergence."""
         conf = self.provenance.get("configuration", {})
-        verdict = "within" if self.within_chemical_accuracy else "NOT within"
+        stderr = f" ± {1000 * self.standard_error:.4f}" if self.standard_error else ""
         lines = [
             f"{conf.get('molecule', 'molecule')}",
             f"  active space   {conf.get('active_space', '')}",
@@ -121,9 +142,8 @@ class RunResult:
             "",
             f"{'energy':<28}{self.energy:>18.10f} Ha",
             f"{'exact reference':<28}{self.reference.energy:>18.10f} Ha  (multiplicity {self.reference.multiplicity})",
-            f"{'error':<28}{1000 * self.error:>18.4f} mHa  ({verdict} chemical accuracy, 1.6 mHa)",
-            *([f"{'standard error':<28}{1000 * self.standard_error:>18.4f} mHa  (verdict at 2 sigma: "
-               f"{self.verdict})"] if self.standard_error else []),
+            f"{'error':<28}{1000 * self.error:>18.4f}{stderr} mHa",
+            f"{'verdict':<28}{verdict_text(self.verdict)} (1.6 mHa)",
             *([f"{'exact energy, same params':<28}{self.exact_energy:>18.10f} Ha  (estimator bias "
                f"{1000 * self.estimator_bias:+.4f} mHa)"]
               if self.exact_energy is not None and abs(self.exact_energy - self.energy) > 1e-12 else []),

@@ -8,12 +8,16 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from .energy_surface import EnergySurface
+from .estimators import Measurement
 from .provenance import provenance
 from .resources import resources_for
 from .result import History, ReferenceRecord, RunResult
 
 if TYPE_CHECKING:  # pragma: no cover
+    from .minimisers import MinimiserOutcome
     from .pipeline import Pipeline
+    from .problem import Problem
 
 
 def run_pipeline(
@@ -43,7 +47,8 @@ def run_pipeline(
 
 
 def build_result(
-    pipeline: Pipeline, problem: Any, objective: Any, outcome: Any, components: dict, measurement: Any = None
+    pipeline: Pipeline, problem: Problem, objective: EnergySurface, outcome: MinimiserOutcome, components: dict,
+    measurement: Measurement | None = None,
 ) -> RunResult:
     """Assemble a RunResult from a minimiser outcome (final state analysed exactly).
 
@@ -58,9 +63,7 @@ def build_result(
     state = objective.state(theta)
     reference = problem.reference
     norm = float(np.vdot(state, state).real)
-    # a qubit objective's state is a statevector: compare it with the exact state embedded on its register
-    exact = objective.encoding.embed(reference.ci) if hasattr(objective, "encoding") else reference.ci
-    overlap_value = complex(np.vdot(exact, state))
+    overlap_value = complex(np.vdot(objective.exact_state(), state))
     overlap = abs(overlap_value)
     # global phase: overlap with the exact state real and non-negative (real parts of amplitudes are reported)
     phase = overlap_value.conjugate() / overlap if overlap > 0 else 1.0
@@ -77,7 +80,7 @@ def build_result(
         standard_error=float(standard_error),
         exact_energy=float(objective.energy(theta)),
         parameters=theta.copy(),
-        parameter_labels=tuple(getattr(objective, "parameter_labels", ())),
+        parameter_labels=tuple(objective.parameter_labels),
         history=history,
         converged=bool(outcome.converged),
         stop_reason=str(outcome.stop_reason),
@@ -88,8 +91,7 @@ def build_result(
         amplitudes={label: float(np.real(phase * a)) for label, a in objective.amplitudes(theta).items()},
         fidelity=overlap * overlap / norm,
         spin_square=float(objective.spin_square(theta)),
-        particle_number=(float(objective.particle_number(theta)) if hasattr(objective, "particle_number")
-                         else float(problem.n_electrons) * norm),
+        particle_number=float(objective.particle_number(theta)),
         resources=resources_for(pipeline, objective, theta),
         provenance=provenance(pipeline.configuration(), components),
     )

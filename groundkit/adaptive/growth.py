@@ -18,6 +18,7 @@ import numpy as np
 from groundkit.adaptive.costs import GateCounter
 from groundkit.adaptive.records import GrowthStep, Operator, operator_label, operator_record
 from groundkit.adaptive.watch import Watch
+from groundkit.energy_surface import EnergySurface
 from groundkit.errors import ComponentError
 from groundkit.minimisers import IterationRecord, MinimiserOutcome
 from groundkit.sector.space import lowest_strings
@@ -34,7 +35,7 @@ class Growth:
     steps: tuple[GrowthStep, ...]
     sequence: tuple[Operator, ...]
     pipeline: Any
-    objective: Any
+    objective: EnergySurface
     measurement: Any
     outcome: MinimiserOutcome
 
@@ -142,7 +143,7 @@ class _Current:
         pipeline = self.base.trial_state(self.engine.trial_state(sequence))
         measurement = self.estimator.bind(pipeline)
         self.sequence, self.pipeline, self.measurement = list(sequence), pipeline, measurement
-        self.objective = pipeline.objective()
+        self.objective: EnergySurface = pipeline.objective()
 
     def energy(self, theta: np.ndarray) -> float:
         return self.watch.guard(self.measurement.energy, theta)

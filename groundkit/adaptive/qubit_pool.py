@@ -25,6 +25,7 @@ from openfermion import FermionOperator
 from groundkit.adaptive.pools import OperatorPool, SinglesDoublesPool, as_pool
 from groundkit.errors import ComponentError
 from groundkit.mapping import QubitMapping
+from groundkit.qubit_states.objective import QubitObjective
 from groundkit.qubit_states.pauli_rotations import PauliAction, PauliRotations, pauli_label, pauli_term
 from groundkit.sector.excitation import Excitation
 from groundkit.sector.space import lowest_strings
@@ -175,7 +176,7 @@ class PauliPoolEngine:
             )
         return PauliRotations(list(sequence))
 
-    def gradients(self, objective: Any, parameters: np.ndarray) -> np.ndarray:
+    def gradients(self, objective: QubitObjective, parameters: np.ndarray) -> np.ndarray:
         """dE/dtheta = -2 Im <H psi|P_k psi> (Hartree per radian) of each string appended at zero.
 
         ``objective`` is the QubitObjective of :meth:`trial_state` of the current sequence.

@@ -14,25 +14,17 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import ComponentError, SymmetryError
+from ..energy_surface import EnergySurface
+from ..errors import ComponentError
 from .base import Estimator, Measurement, central_differences
 from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities, sample_group
 
 ALLOCATIONS = ("uniform", "variance")
 
 
-def statevector(objective: Any, encoding: Any, theta: np.ndarray) -> np.ndarray:
-    """The trial state on the qubit register: determinant-space states are embedded, qubit states returned."""
-    if hasattr(objective, "sector"):  # the determinant engine's Objective
-        vector = encoding.embed(objective.state(theta))
-        lost = 1.0 - float(np.vdot(vector, vector).real)
-        if lost > 1e-9:
-            raise SymmetryError(
-                f"the trial state has weight {lost:.3g} outside the tapered symmetry sector of {encoding.mapping!r}; "
-                "build the objective through the pipeline (it keeps symmetry-conserving excitations only)"
-            )
-        return vector
-    return np.asarray(objective.state(theta), dtype=complex)
+def statevector(objective: EnergySurface, encoding: Any, theta: np.ndarray) -> np.ndarray:
+    """The trial state on the qubit register (determinant-space states embedded, qubit states as they are)."""
+    return objective.register_state(theta, encoding)
 
 
 def allocate(shots: int, sigmas: np.ndarray, allocation: str, minimum: int = 2) -> np.ndarray:

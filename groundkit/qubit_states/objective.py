@@ -1,7 +1,8 @@
 """QubitObjective: the energy of a qubit trial state on a qubit Hamiltonian, on a numpy statevector.
 
-Same interface as :class:`groundkit.objective.Objective`. Energies in Hartree (core energy included, as in the
-qubit Hamiltonian); parameters in radians; gradients by the adjoint method (see :mod:`.program`).
+Implements :class:`groundkit.energy_surface.EnergySurface`, as :class:`groundkit.objective.Objective` does. Energies
+in Hartree (core energy included, as in the qubit Hamiltonian); parameters in radians; gradients by the adjoint
+method (see :mod:`.program`). Warm starts across geometries reuse the parameter vector as it is.
 """
 
 from __future__ import annotations
@@ -12,6 +13,7 @@ from typing import Any
 
 import numpy as np
 
+from ..energy_surface import EnergySurface, WarmStart, handover_kind
 from ..errors import ComponentError
 from ..sector.strings import determinant_label, make_strings
 from .base import QubitTrialState
@@ -28,7 +30,7 @@ def shared_sparse_hamiltonian(encoding: Any) -> Any:
     return matrix
 
 
-class QubitObjective:
+class QubitObjective(EnergySurface):
     """E(θ) = ⟨ψ(θ)|H_qubit|ψ(θ)⟩ for a :class:`QubitTrialState` on a :class:`~groundkit.qubits.QubitEncoding`."""
 
     def __init__(self, encoding: Any, trial_state: QubitTrialState) -> None:
@@ -85,9 +87,42 @@ class QubitObjective:
         """(E(θ), dE/dθ) in Hartree and Hartree per radian, by one adjoint sweep."""
         return self.program.energy_and_gradient(self.check_parameters(theta), self.hamiltonian.dot)
 
-    def estimate(self, theta: Any) -> tuple[float, float]:
-        """(E(θ), standard error) in Hartree; exact, so the error is 0."""
-        return self.energy(theta), 0.0
+    def exact_state(self) -> np.ndarray:
+        """The problem's exact reference embedded on this objective's register."""
+        return self.encoding.embed(self.problem.reference.ci)
+
+    def register_state(self, theta: Any, encoding: Any) -> np.ndarray:
+        """ψ(θ); ``encoding`` must be this objective's own register (a qubit state is built for one register)."""
+        if encoding is not self.encoding and (encoding.n_qubits != self.encoding.n_qubits
+                                              or encoding.mapping != self.encoding.mapping):
+            raise ComponentError(
+                f"{self.trial_state!r} was built on {self.encoding.n_qubits} qubits under {self.encoding.mapping!r}; "
+                f"it cannot be measured on {encoding.n_qubits} qubits under {encoding.mapping!r}"
+            )
+        return np.asarray(self.state(theta), dtype=complex)
+
+    def handover(self, theta: Any) -> dict[str, Any]:
+        """The parameters (radians) at ``theta`` with the register they act on, for reuse at the next geometry."""
+        return {"kind": "parameter-reuse", "parameters": [float(x) for x in self.check_parameters(theta)],
+                "n_qubits": int(self.encoding.n_qubits), "trial_state": repr(self.trial_state)}
+
+    def warm_start(self, previous: Any, handover: dict[str, Any]) -> WarmStart:
+        """The previous point's parameters, unchanged, when they fit this register and trial state; cold otherwise.
+
+        A qubit trial state's parameters refer to qubits, so no orbital matching applies: an orbital whose phase
+        flipped between the geometries changes the Hamiltonian the reused angles meet (the minimiser then corrects).
+        """
+        kind = handover_kind(handover)
+        if kind != "parameter-reuse":
+            return WarmStart.cold(f"previous point hands over by {kind}, this trial state reuses parameters")
+        values = np.asarray(handover.get("parameters", ()), dtype=float)
+        if int(handover.get("n_qubits", -1)) != self.encoding.n_qubits or values.shape != (self.n_parameters,):
+            return WarmStart.cold(
+                f"previous point has {values.size} parameters on {handover.get('n_qubits')} qubits, this one "
+                f"{self.n_parameters} on {self.encoding.n_qubits}")
+        if not np.all(np.isfinite(values)):
+            return WarmStart.cold("previous point's parameters are not finite")
+        return WarmStart(values, f"warm ({values.size}/{self.n_parameters} parameters reused, no orbital matching)")
 
     @cached_property
     def _spin_square(self) -> Any:

@@ -12,8 +12,8 @@ from .errors import StudyFileError
 from .geometries import BondStretch
 from .toml_file import Study
 
-CSV_COLUMNS = ("value", "energy", "reference", "error_mha", "hf", "ccsd", "converged", "iterations", "wall_time",
-               "start", "failure")
+CSV_COLUMNS = ("value", "energy", "reference", "error_mha", "verdict", "hf", "ccsd", "converged", "iterations",
+               "wall_time", "start", "failure")
 
 
 def run_study(study: Study, *, resume: bool = False, progress: bool = True) -> tuple[str, int]:

@@ -4,15 +4,17 @@ from __future__ import annotations
 
 import itertools
 from collections.abc import Sequence
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from groundkit import components as _c
 from groundkit.persistence import result_from_dict
-from groundkit.result import CHEMICAL_ACCURACY
 
 from .errors import ScanInputError
 from .executors import run_chains, runner_for
 from .work import Task, components_of, run_task
+
+if TYPE_CHECKING:  # pragma: no cover
+    from groundkit.pipeline import Pipeline
 
 RESOURCE_COLUMNS = ("qubits", "parameters", "pauli_terms", "measurement_groups", "two_qubit_gates", "depth")
 
@@ -28,7 +30,7 @@ def _options(name: str, given: Sequence[Any] | None, convert: Any, own: Any) -> 
 
 
 def compare(
-    pipeline: Any,
+    pipeline: Pipeline,
     *,
     mappings: Sequence[Any] | None = None,
     trial_states: Sequence[Any] | None = None,
@@ -42,9 +44,14 @@ def compare(
     ``progress=True`` shows a tqdm bar, one step per finished combination.
 
     A list left out keeps the pipeline's own component. Columns: mapping, trial_state, estimator, minimiser,
-    energy, reference, error (Ha), error_mha, within_chemical_accuracy (1.6 mHa; common practice, no single
-    source), the resource counts, shot_budget (shots for a 1.6 mHa standard error where the estimator samples
-    and the pipeline can tell, else None), converged, iterations, wall_time (s), failure.
+    energy, reference, error (Ha), error_mha, standard_error (Ha), verdict ('within', 'outside' or 'uncertain':
+    chemical accuracy, 1.6 mHa, judged at two standard errors; common practice, no single source),
+    within_chemical_accuracy (True only when the verdict is 'within'), the resource counts, shot_budget (shots
+    for a 1.6 mHa standard error where the estimator samples and the pipeline can tell, else None), converged,
+    iterations, wall_time (s), failure.
+
+    A combination that groundkit refuses or cannot solve (a GroundkitError) becomes a row whose ``failure`` says
+    why; any other exception is a programming error and is raised.
     """
     import pandas as pd
 
@@ -95,7 +102,9 @@ def compare(
         row["reference"] = result.reference.energy if result else None
         row["error"] = result.error if result else None
         row["error_mha"] = 1000 * result.error if result else None
-        row["within_chemical_accuracy"] = bool(abs(result.error) <= CHEMICAL_ACCURACY) if result else None
+        row["standard_error"] = result.standard_error if result else None
+        row["verdict"] = result.verdict if result else None
+        row["within_chemical_accuracy"] = result.within_chemical_accuracy if result else None
         for name in RESOURCE_COLUMNS:
             row[name] = getattr(result.resources, name) if result else None
         row["shot_budget"] = answer["extras"].get("shot_budget")

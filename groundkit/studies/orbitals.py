@@ -8,15 +8,21 @@ the assignment that maximises ``sum |O[old, new]|`` gives the permutation, and t
 gives the phase. Each previous excitation is rewritten in the new orbitals; its angle is multiplied by the
 product of the phases of every spin orbital it touches and by the parity of reordering its indices into the new
 excitation's order. New excitations with no counterpart start at zero.
+
+:func:`orbital_handover` and :func:`orbital_warm_start` are the warm-start handover of fermionic objectives
+(:meth:`groundkit.objective.Objective.handover` and ``warm_start``).
 """
 
 from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 from scipy.optimize import linear_sum_assignment
+
+from groundkit.energy_surface import WarmStart
 
 
 @dataclass(frozen=True)
@@ -145,3 +151,53 @@ def transfer_parameters(
             parameters[index] = carried[key] * order_sign / factor
             assigned[index] = True
     return parameters, int(np.count_nonzero(assigned))
+
+
+def active_orbitals(problem: Any) -> np.ndarray:
+    """Active MO coefficients (n_ao, n_active) of a problem."""
+    return np.array(problem.scf.mo_coeff[:, list(problem.active_orbitals.active)], dtype=float)
+
+
+def orbital_handover(problem: Any, plan: Any, parameters: np.ndarray) -> dict[str, Any]:
+    """The handover (plain data, kind 'orbital-matching') of an excitation plan at ``parameters`` (radians)."""
+    handover = Handover(
+        orbitals=active_orbitals(problem),
+        excitations=tuple((tuple(e.creators), tuple(e.annihilators)) for e in plan.excitations),
+        parameter_index=tuple(int(i) for i in plan.parameter_index),
+        scale=tuple(float(f) for f in plan.scale),
+        parameters=np.array(parameters, dtype=float),
+    )
+    return {"kind": "orbital-matching", **handover.to_dict()}
+
+
+def previous_match(problem: Any, previous: Any, data: dict[str, Any]) -> tuple[Handover, OrbitalMatch] | str:
+    """(handover, orbital match) of ``data``, handed over at the molecule ``previous``, with ``problem``'s active
+    orbitals; or the reason they cannot be compared."""
+    from groundkit.chemistry import cross_overlap
+
+    handover = Handover.from_dict(data)
+    molecule = problem.molecule
+    new_orbitals = active_orbitals(problem)
+    if (previous.symbols != molecule.symbols or previous.basis != molecule.basis
+            or handover.orbitals.shape != new_orbitals.shape):
+        return "previous point has other atoms, basis or active space"
+    return handover, match_orbitals(handover.orbitals, new_orbitals, cross_overlap(previous, molecule))
+
+
+def warm_note(match: OrbitalMatch, carried: int, total: int, what: str = "parameters") -> str:
+    """'warm (k/n parameters carried, s sign flips, m orbitals moved)'."""
+    flips = sum(1 for s in match.signs if s < 0)
+    moved = sum(1 for j, i in enumerate(match.old_of_new) if i != j)
+    return f"warm ({carried}/{total} {what} carried, {flips} sign flips, {moved} orbitals moved)"
+
+
+def orbital_warm_start(problem: Any, plan: Any, previous: Any, data: dict[str, Any]) -> WarmStart:
+    """Starting parameters for ``plan`` on ``problem`` from the handover ``data`` of the molecule ``previous``."""
+    found = previous_match(problem, previous, data)
+    if isinstance(found, str):
+        return WarmStart.cold(found)
+    handover, match = found
+    parameters, carried = transfer_parameters(
+        handover, match, [(e.creators, e.annihilators) for e in plan.excitations], plan.parameter_index,
+        plan.scale, plan.n_parameters)
+    return WarmStart(parameters, warm_note(match, carried, plan.n_parameters), match.quality)

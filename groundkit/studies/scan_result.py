@@ -64,8 +64,8 @@ class ScanResult:
     @property
     def table(self) -> Any:
         """pandas DataFrame, one row per point: value, energy, reference, error (Ha), error_mha, one column per
-        baseline (Ha), converged, iterations, parameters, wall_time (s), stderr (Ha, sampled estimators only),
-        start, orbital_match, failure.
+        baseline (Ha), verdict ('within', 'outside' or 'uncertain', see ``RunResult.verdict``), converged,
+        iterations, parameters, wall_time (s), stderr (Ha, sampled estimators only), start, orbital_match, failure.
         The stderr column appears when some point has a non-zero standard error."""
         import pandas as pd
 
@@ -85,11 +85,12 @@ class ScanResult:
             for name in baseline_names:
                 b = r.baselines.get(name) if r else None
                 row[name] = np.nan if b is None else b
+            row["verdict"] = r.verdict if r else None
             row["converged"] = bool(r.converged) if r else False
             row["iterations"] = r.iterations if r else 0
             row["parameters"] = np.array(r.parameters) if r else np.zeros(0)
             row["wall_time"] = p.wall_time
-            stderr = getattr(r, "standard_error", None) if r else None
+            stderr = r.standard_error if r else None
             any_stderr = any_stderr or bool(stderr)
             row["stderr"] = np.nan if stderr is None else stderr
             row["start"] = p.start
@@ -155,13 +156,15 @@ class ScanResult:
         return ax
 
     def summary(self) -> str:
-        """Plain-text table of value, energy, reference, error (mHa), iterations and start of every point."""
-        lines = [f"{'value':>12}{'energy/Ha':>18}{'reference/Ha':>18}{'error/mHa':>12}{'iter':>6}  start"]
+        """Plain-text table of value, energy, reference, error (mHa), verdict, iterations and start of every
+        point; the verdict column reads 'within', 'outside' or 'uncertain' (chemical accuracy at 2 sigma)."""
+        lines = [f"{'value':>12}{'energy/Ha':>18}{'reference/Ha':>18}{'error/mHa':>12}  {'verdict':<10}{'iter':>6}"
+                 "  start"]
         for p in self.points:
             if p.ok:
                 r = p.result
                 lines.append(f"{p.value:>12.6g}{r.energy:>18.10f}{r.reference.energy:>18.10f}"
-                             f"{1000 * r.error:>12.4f}{r.iterations:>6}  {p.start}")
+                             f"{1000 * r.error:>12.4f}  {r.verdict:<10}{r.iterations:>6}  {p.start}")
             else:
                 lines.append(f"{p.value:>12.6g}  failed: {p.failure}")
         return "\n".join(lines)

@@ -10,7 +10,7 @@ from dataclasses import fields
 from html import escape
 from typing import Any
 
-from ..result import CHEMICAL_ACCURACY
+from ..result import CHEMICAL_ACCURACY, verdict_text
 from . import palette
 
 _STYLE = ("<style>.gk-box{font-family:sans-serif;font-size:13px;line-height:1.35}"
@@ -18,8 +18,7 @@ _STYLE = ("<style>.gk-box{font-family:sans-serif;font-size:13px;line-height:1.35
           ".gk-box td,.gk-box th{padding:2px 10px;border-bottom:1px solid #ddd;text-align:right}"
           ".gk-box th{background:#f2f2f2}.gk-box td.l,.gk-box th.l{text-align:left}"
           ".gk-box .gk-active{font-weight:bold}</style>")
-VERDICT_MARK = {"within": ("✔ within", palette.GREEN), "outside": ("✘ outside", palette.VERMILION),
-                "uncertain": ("? uncertain", palette.ORANGE)}
+VERDICT_MARK = {"within": ("✔", palette.GREEN), "outside": ("✘", palette.VERMILION), "uncertain": ("?", palette.ORANGE)}
 
 
 def table(header: list[str], rows: list[list[Any]], left: int = 1, row_classes: list[str] | None = None) -> str:
@@ -85,8 +84,9 @@ def problem_html(problem: Any) -> str:
 
 
 def verdict_html(verdict: str) -> str:
-    text, colour = VERDICT_MARK[verdict]
-    return f"<span style='color:{colour};font-weight:bold'>{escape(text)}</span> chemical accuracy"
+    """The verdict's one wording (:func:`groundkit.result.verdict_text`), marked and coloured."""
+    mark, colour = VERDICT_MARK[verdict]
+    return f"<span style='color:{colour};font-weight:bold'>{mark} {escape(verdict_text(verdict))}</span>"
 
 
 def result_html(result: Any) -> str:

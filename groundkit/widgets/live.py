@@ -11,7 +11,7 @@ from typing import Any
 
 import ipywidgets as widgets
 
-from ..result import CHEMICAL_ACCURACY
+from ..result import CHEMICAL_ACCURACY, verdict_text
 from .figures import png_bytes, run_figure
 from .series import AmplitudeSeries, EnergySeries, known_baselines
 
@@ -131,8 +131,7 @@ class RunView(widgets.VBox):
 
     @staticmethod
     def _final_status(result: Any) -> str:
-        verdict = {"within": "within chemical accuracy", "outside": "outside chemical accuracy",
-                   "uncertain": "chemical accuracy uncertain at 2σ"}[result.verdict]
+        verdict = verdict_text(result.verdict)
         stderr = f" ± {1000 * result.standard_error:.3f}" if result.standard_error else ""
         return (f"finished after {result.iterations} iterations: energy {result.energy:.8f} Ha, error "
                 f"{1000 * result.error:+.3f}{stderr} mHa, {verdict} ({1000 * CHEMICAL_ACCURACY:.1f} mHa); "

@@ -2,8 +2,8 @@ import numpy as np
 import pytest
 
 import groundkit as gk
-from groundkit.studies.orbitals import Handover, OrbitalMatch, match_orbitals, transfer_parameters
-from groundkit.studies.work import active_orbitals, map_sequence
+from groundkit.studies.orbitals import Handover, OrbitalMatch, active_orbitals, match_orbitals, transfer_parameters
+from groundkit.studies.work import map_sequence
 
 from .helpers import h2_631g, pyscf_fci_curve
 
