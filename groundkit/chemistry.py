@@ -8,10 +8,11 @@ from __future__ import annotations
 
 import warnings
 from collections import OrderedDict
+from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 from functools import lru_cache
-from typing import TYPE_CHECKING, Any, Iterator
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -264,8 +265,9 @@ def _converge(mol: Any) -> tuple[Any, list[str]]:
 def _attempt(name: str, mf: Any) -> str:
     """One line per solver run, e.g. 'DIIS: converged in 9 cycles'."""
     cycles = getattr(mf, "cycles", None)
-    counted = f" {'in' if mf.converged else 'after'} {cycles} cycles" if isinstance(cycles, (int, np.integer)) and cycles > 0 else ""
-    return f"{name}: {'converged' if mf.converged else 'not converged'}{counted}"
+    if not isinstance(cycles, (int, np.integer)) or cycles <= 0:  # the second-order solver keeps no count
+        return f"{name}: {'converged' if mf.converged else 'not converged'}"
+    return f"{name}: converged in {cycles} cycles" if mf.converged else f"{name}: not converged after {cycles} cycles"
 
 
 def _order_orbitals(mf: Any) -> None:
