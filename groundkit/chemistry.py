@@ -8,13 +8,15 @@ from __future__ import annotations
 
 import warnings
 from collections import OrderedDict
+from collections.abc import Iterator
+from contextlib import contextmanager
 from dataclasses import dataclass, field
 from functools import lru_cache
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from .errors import BasisError, ConvergenceError
+from .errors import BasisError, ConvergenceError, ScfFallbackWarning, ScfInstabilityWarning
 
 if TYPE_CHECKING:  # pragma: no cover
     from .molecule import MoleculeSpec
@@ -22,13 +24,52 @@ if TYPE_CHECKING:  # pragma: no cover
 SCF_CACHE_SIZE = 64
 SCF_CONV_TOL = 1e-10  # Hartree
 SCF_MAX_CYCLES = (100, 300, 100)  # plain DIIS, DIIS with level shift, second-order solver
+SCF_INITIAL_GUESS = "minao"  # PySCF's superposition of atomic densities: no randomness, the same on every run
+SCF_THREADS = 1  # BLAS/OpenMP threads inside an SCF: one thread makes every run take the same path (see below)
 CC_MAX_CYCLE = 200  # CISD and CCSD iterations before a baseline is reported as not converged
 FCI_CONV_TOL = 1e-12  # Hartree
 
 
+@dataclass(frozen=True)
+class ScfStability:
+    """PySCF's stability analysis of an RHF/ROHF solution (the lowest eigenvalues of the orbital Hessian).
+
+    ``internal``: no lower solution of the same kind (RHF or ROHF) by a real orbital rotation. ``external``: for
+    RHF, no lower UHF solution (RHF→UHF); ``None`` for ROHF, where it is not analysed.
+    """
+
+    method: str
+    internal: bool
+    external: bool | None
+
+    @property
+    def stable(self) -> bool:
+        return self.internal and self.external is not False
+
+    @property
+    def description(self) -> str:
+        """One line for reports: 'stable (...)' or the instabilities found."""
+        if self.stable:
+            checked = "internal and RHF→UHF" if self.external is not None else "internal"
+            return f"stable ({checked} stability analysis)"
+        found = []
+        if not self.internal:
+            found.append(f"{self.method} internal instability: a lower-energy {self.method} solution exists, "
+                         "these orbitals are a saddle point")
+        if self.external is False:
+            found.append("RHF→UHF instability: a lower-energy UHF solution breaks spin symmetry (typical of "
+                         "stretched bonds); expect strong static correlation")
+        return "; ".join(found)
+
+
 @dataclass(frozen=True, eq=False)
 class ScfSolution:
-    """A converged RHF (closed shell) or ROHF (open shell) solution. Energies in Hartree."""
+    """A converged RHF (closed shell) or ROHF (open shell) solution. Energies in Hartree.
+
+    Orbitals are ordered doubly occupied, singly occupied, virtual (by energy inside each class), so the
+    Hartree–Fock determinant fills the lowest indices. ``attempts`` lists each solver run with its cycle count;
+    more than one means a fallback was needed. :meth:`stability` runs PySCF's stability analysis on first use.
+    """
 
     method: str
     energy: float
@@ -38,6 +79,8 @@ class ScfSolution:
     mo_coeff: np.ndarray
     attempts: tuple[str, ...]
     _mf: Any = field(repr=False)
+    label: str = ""
+    _stability: list = field(default_factory=list, repr=False)
 
     @property
     def n_orbitals(self) -> int:
@@ -50,6 +93,37 @@ class ScfSolution:
     @property
     def n_singly_occupied(self) -> int:
         return int(np.count_nonzero((self.mo_occ > 0.5) & (self.mo_occ < 1.5)))
+
+    @property
+    def needed_fallback(self) -> bool:
+        """True when plain DIIS did not converge and a level shift or the second-order solver was needed."""
+        return len(self.attempts) > 1
+
+    def stability(self) -> ScfStability:
+        """PySCF's stability analysis (internal; for RHF also RHF→UHF), computed once and kept.
+
+        Warns :class:`~groundkit.errors.ScfInstabilityWarning` when it finds an instability. It costs about as
+        much as the SCF itself for mid-sized basis sets, so it runs only when asked (``problem.summary()``,
+        ``problem.scf_stability``) or straight after an SCF that needed a fallback.
+        """
+        if not self._stability:
+            result = _analyse_stability(self._mf, self.method)
+            self._stability.append(result)
+            if not result.stable:
+                warnings.warn(f"SCF of {self.label or 'this molecule'} is unstable: {result.description}",
+                              ScfInstabilityWarning, stacklevel=2)
+        return self._stability[0]
+
+    @property
+    def stable(self) -> bool:
+        """No instability found by :meth:`stability` (runs it on first use)."""
+        return self.stability().stable
+
+    @property
+    def instability(self) -> str | None:
+        """The instabilities found by :meth:`stability`, or None for a stable solution."""
+        result = self.stability()
+        return None if result.stable else result.description
 
 
 _SCF_CACHE: OrderedDict[MoleculeSpec, ScfSolution] = OrderedDict()  # type: ignore[name-defined]
@@ -104,61 +178,123 @@ def _scf_object(mol: Any) -> Any:
 
     mf = scf.RHF(mol) if mol.spin == 0 else scf.ROHF(mol)
     mf.conv_tol = SCF_CONV_TOL
+    mf.init_guess = SCF_INITIAL_GUESS
     mf.verbose = 0
     return mf
 
 
+@contextmanager
+def scf_threads(limit: int | None = None) -> Iterator[None]:
+    """Limit BLAS and OpenMP (PySCF's own kernels) to ``limit`` threads (default :data:`SCF_THREADS`).
+
+    Threaded reductions add in a different order on each run; on a hard SCF (the Ni atom triplet) that rounding
+    sends DIIS to different solutions, up to 0.25 Ha apart. With a fixed thread count every run is identical.
+    """
+    from pyscf import lib, scf  # noqa: F401  (loads PySCF's OpenMP library before its threads are limited)
+    from threadpoolctl import threadpool_limits
+
+    with threadpool_limits(limits=SCF_THREADS if limit is None else limit):
+        yield
+
+
 def solve_scf(spec: MoleculeSpec) -> ScfSolution:
-    """RHF or ROHF for the spec, retried with a level shift and then a second-order solver if needed (cached)."""
+    """RHF or ROHF for the spec, retried with a level shift and then a second-order solver if needed (cached).
+
+    Deterministic: a fixed initial guess and :data:`SCF_THREADS` threads, whatever the environment sets. A
+    fallback warns :class:`~groundkit.errors.ScfFallbackWarning` and runs the stability analysis at once.
+    """
     cached = _SCF_CACHE.get(spec)
     if cached is not None:
         _SCF_CACHE.move_to_end(spec)
         return cached
     mol = build_mole(spec)
+    with scf_threads():
+        mf, attempts = _converge(mol)
+    if not mf.converged:
+        raise ConvergenceError(
+            f"SCF for {spec!r} did not converge after: {'; '.join(attempts)}. Try another geometry, "
+            "multiplicity or basis set; a wrong multiplicity is the usual cause"
+        )
+    _order_orbitals(mf)
+    solution = ScfSolution(
+        method="RHF" if mol.spin == 0 else "ROHF",
+        energy=float(mf.e_tot),
+        nuclear_repulsion=float(mol.energy_nuc()),
+        mo_energy=np.array(mf.mo_energy, dtype=float),
+        mo_occ=np.array(mf.mo_occ, dtype=float),
+        mo_coeff=np.array(mf.mo_coeff, dtype=float),
+        attempts=tuple(attempts),
+        _mf=mf,
+        label=repr(spec),
+    )
+    if solution.needed_fallback:
+        warnings.warn(
+            f"SCF of {spec!r} needed a fallback: {'; '.join(attempts)}. A hard SCF can have several solutions; "
+            "the stability analysis follows (see problem.summary())", ScfFallbackWarning, stacklevel=2,
+        )
+        solution.stability()
+    _SCF_CACHE[spec] = solution
+    while len(_SCF_CACHE) > SCF_CACHE_SIZE:
+        _SCF_CACHE.popitem(last=False)
+    return solution
+
+
+def _converge(mol: Any) -> tuple[Any, list[str]]:
+    """Plain DIIS, then DIIS with a level shift, then the second-order solver, each from the last density."""
     attempts: list[str] = []
     mf = _scf_object(mol)
     mf.max_cycle = SCF_MAX_CYCLES[0]
     mf.kernel()
-    attempts.append(f"DIIS (converged={bool(mf.converged)})")
+    attempts.append(_attempt("DIIS", mf))
     if not mf.converged:
         dm = mf.make_rdm1()
         mf = _scf_object(mol)
         mf.level_shift = 0.5
         mf.max_cycle = SCF_MAX_CYCLES[1]
         mf.kernel(dm0=dm)
-        attempts.append(f"DIIS with level shift 0.5 Ha (converged={bool(mf.converged)})")
+        attempts.append(_attempt("DIIS with level shift 0.5 Ha", mf))
     if not mf.converged:
         dm = mf.make_rdm1()
         mf = _scf_object(mol).newton()
         mf.max_cycle = SCF_MAX_CYCLES[2]
         mf.kernel(dm0=dm)
-        attempts.append(f"second-order (Newton) solver (converged={bool(mf.converged)})")
-    if not mf.converged:
-        raise ConvergenceError(
-            f"SCF for {spec!r} did not converge after: {'; '.join(attempts)}. Try another geometry, "
-            "multiplicity or basis set; a wrong multiplicity is the usual cause"
-        )
-    # occupied before singly occupied before virtual, by energy inside each class, so the Hartree–Fock
-    # determinant always fills the lowest indices (the same as plain energy order in all usual cases)
-    order = np.lexsort((np.asarray(mf.mo_energy), -np.asarray(mf.mo_occ)))
-    if np.any(order != np.arange(order.size)):  # keep PySCF's own object consistent for the baselines
-        mf.mo_energy, mf.mo_occ, mf.mo_coeff = mf.mo_energy[order], mf.mo_occ[order], mf.mo_coeff[:, order]
+        attempts.append(_attempt("second-order (Newton) solver", mf))
+    return mf, attempts
+
+
+def _attempt(name: str, mf: Any) -> str:
+    """One line per solver run, e.g. 'DIIS: converged in 9 cycles'."""
+    cycles = getattr(mf, "cycles", None)
+    if not isinstance(cycles, (int, np.integer)) or cycles <= 0:  # the second-order solver keeps no count
+        return f"{name}: {'converged' if mf.converged else 'not converged'}"
+    return f"{name}: converged in {cycles} cycles" if mf.converged else f"{name}: not converged after {cycles} cycles"
+
+
+def _order_orbitals(mf: Any) -> None:
+    """The one place orbitals are reordered: doubly occupied, singly occupied, virtual (by energy inside each
+    class), so the Hartree–Fock determinant fills the lowest indices; then each orbital's sign is fixed.
+
+    PySCF's object is changed in place so that the baselines see the same orbitals as the active space (for
+    ROHF the alpha and beta orbital energies PySCF attaches are reordered alongside).
+    """
+    from pyscf import lib
+
+    energy = np.asarray(mf.mo_energy, dtype=float)
+    order = np.lexsort((energy, -np.asarray(mf.mo_occ, dtype=float)))
+    tags = {k: np.asarray(getattr(mf.mo_energy, k))[order] for k in ("mo_ea", "mo_eb")
+            if getattr(mf.mo_energy, k, None) is not None}
+    mf.mo_energy = lib.tag_array(energy[order], **tags) if tags else energy[order]
+    mf.mo_occ = np.asarray(mf.mo_occ, dtype=float)[order]
     # eigen-solvers return either sign of each orbital; fix it so parameters compare between runs and processes
-    mf.mo_coeff = canonical_phases(mf.mo_coeff)
-    solution = ScfSolution(
-        method="RHF" if mol.spin == 0 else "ROHF",
-        energy=float(mf.e_tot),
-        nuclear_repulsion=float(mol.energy_nuc()),
-        mo_energy=np.asarray(mf.mo_energy, dtype=float)[order].copy(),
-        mo_occ=np.asarray(mf.mo_occ, dtype=float)[order].copy(),
-        mo_coeff=np.asarray(mf.mo_coeff, dtype=float)[:, order].copy(),
-        attempts=tuple(attempts),
-        _mf=mf,
-    )
-    _SCF_CACHE[spec] = solution
-    while len(_SCF_CACHE) > SCF_CACHE_SIZE:
-        _SCF_CACHE.popitem(last=False)
-    return solution
+    mf.mo_coeff = canonical_phases(np.asarray(mf.mo_coeff, dtype=float)[:, order])
+
+
+def _analyse_stability(mf: Any, method: str) -> ScfStability:
+    """Run PySCF's stability analysis (thread-limited, so it is deterministic too)."""
+    with scf_threads(), warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        _, _, internal, external = mf.stability(internal=True, external=method == "RHF", return_status=True)
+    return ScfStability(method=method, internal=bool(internal), external=None if external is None else bool(external))
 
 
 def clear_cache() -> None:

@@ -89,3 +89,22 @@ class StudyFileError(GroundkitError):
 
 class ExecutorError(GroundkitError):
     """An executor that is neither None, 'serial', 'processes', a concurrent.futures Executor nor a Dask Client."""
+
+
+class IntegralConsistencyError(GroundkitError):
+    """Internal fault: the Hartree–Fock determinant's energy from the active-space integrals is not the SCF energy.
+
+    Never caused by input; it means the orbital order or the integral transformation is wrong. Please report it.
+    """
+
+
+class ScfWarning(UserWarning):
+    """Base of the warnings about an SCF solution that converged but deserves a second look."""
+
+
+class ScfFallbackWarning(ScfWarning):
+    """Plain DIIS did not converge: a level shift or the second-order solver was needed."""
+
+
+class ScfInstabilityWarning(ScfWarning):
+    """PySCF's stability analysis found a lower-energy solution (internal, or RHF→UHF for closed shells)."""

@@ -121,12 +121,9 @@ class MoleculeSpec:
 
     @property
     def formula(self) -> str:
-        """Hill-order formula (C, H first, then alphabetical), e.g. 'H2O' is written 'H2O'."""
-        counts: dict[str, int] = {}
-        for s in self.symbols:
-            counts[s] = counts.get(s, 0) + 1
-        order = (["C", "H"] if "C" in counts else []) + sorted(k for k in counts if "C" not in counts or k not in "CH")
-        return "".join(f"{s}{counts[s] if counts[s] > 1 else ''}" for s in order)
+        """Hill-order formula: with carbon, C then H then the rest alphabetically ('CH4', 'CO2', 'CF4');
+        without carbon, every element alphabetically ('H2O', 'H3N'). Counts of one are not written."""
+        return hill_formula(self.symbols)
 
     def distance(self, i: int, j: int) -> float:
         """Distance between atoms ``i`` and ``j`` in angstrom."""
@@ -155,6 +152,21 @@ class MoleculeSpec:
 
 
 # helpers --------------------------------------------------------------------------------------------------------
+def hill_formula(symbols: Iterable[str]) -> str:
+    """Hill-order formula of a list of element symbols (common practice, no single source; e.g. the CAS and
+    NIST Chemistry WebBook indexes): C first and H second when carbon is present, then alphabetical; without
+    carbon, all alphabetical."""
+    counts: dict[str, int] = {}
+    for symbol in symbols:
+        counts[symbol] = counts.get(symbol, 0) + 1
+    if "C" in counts:
+        leading = ["C"] + (["H"] if "H" in counts else [])
+    else:
+        leading = []
+    order = leading + sorted(k for k in counts if k not in leading)
+    return "".join(f"{k}{counts[k] if counts[k] > 1 else ''}" for k in order)
+
+
 def _as_sequence(value: Any, what: str) -> tuple:
     if isinstance(value, str):
         value = value.split()

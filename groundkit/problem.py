@@ -15,12 +15,13 @@ import numpy as np
 from . import chemistry
 from .active_space import ActiveSpace, ResolvedActiveSpace
 from .baselines import Baselines
-from .errors import SizeLimitError
+from .errors import IntegralConsistencyError, SizeLimitError
 from .molecule import MoleculeSpec
 from .reference import Reference, make_state
 
 REFERENCE_DETERMINANT_LIMIT = 20_000_000  # exact reference only up to this many determinants (~160 MB a vector)
 PROBLEM_CACHE_SIZE = 64
+HF_CONSISTENCY_TOL = 1e-8  # Hartree: HF determinant energy from the active-space integrals vs the SCF energy
 
 
 class Problem:
@@ -38,8 +39,25 @@ class Problem:
         self.core_energy, self.h1, self.h2 = chemistry.active_integrals(
             self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active)
         )
+        self._check_hf_energy()
         self.baselines = Baselines(self)
         self._states: list = []
+
+    def _check_hf_energy(self) -> None:
+        """Raise :class:`IntegralConsistencyError` unless the HF determinant's energy is the SCF energy (1e-8 Ha).
+
+        A free check of the orbital order, the core folding and the integral transformation (one Slater–Condon
+        sum, microseconds to a millisecond).
+        """
+        difference = self.hf_energy - self.scf_energy
+        if not abs(difference) <= HF_CONSISTENCY_TOL:
+            raise IntegralConsistencyError(
+                f"internal error for {self.molecule!r} in {self.active_orbitals}: the Hartree–Fock determinant's "
+                f"energy from the active-space integrals is {self.hf_energy:.10f} Ha but the {self.scf.method} "
+                f"energy is {self.scf_energy:.10f} Ha ({1e3 * difference:+.6f} mHa; tolerance "
+                f"{HF_CONSISTENCY_TOL:g} Ha). The orbital order or the integral transformation is wrong; please "
+                "report this with the molecule"
+            )
 
     # sizes and quantum numbers ------------------------------------------------------------------------------
     @property
@@ -96,6 +114,11 @@ class Problem:
         return determinant_energy(self.h1, self.h2, self.core_energy, range(self.n_alpha), range(self.n_beta))
 
     @property
+    def scf_stability(self) -> chemistry.ScfStability:
+        """PySCF's stability analysis of the SCF solution (computed on first use; warns when unstable)."""
+        return self.scf.stability()
+
+    @property
     def reference(self) -> Reference:
         """Exact ground state with this problem's N, Sz and S (computed on first use)."""
         return Reference(states=tuple(self.lowest_states(1)))
@@ -126,15 +149,26 @@ class Problem:
         return InteractionOperator(self.core_energy, one, 0.5 * two)
 
     def summary(self) -> str:
-        """Plain-text description: molecule, active space, sizes, reference and HF energy."""
+        """Plain-text description: molecule, SCF (attempts, stability), active space, sizes, reference."""
         ref = self.reference
         return "\n".join([
             repr(self.molecule),
-            f"SCF: {self.scf.method} {self.scf_energy:.10f} Ha",
+            *self.scf_lines(),
             f"active space: {self.active_orbitals}",
             f"qubits (spin orbitals): {self.n_qubits}; determinants (N, Sz): {self.n_determinants:,}",
             f"exact reference: {ref.energy:.10f} Ha, multiplicity {ref.multiplicity}, <S^2> = {ref.spin_square:.6f}",
         ])
+
+    def scf_lines(self) -> list[str]:
+        """The SCF part of :meth:`summary`: energy, the solver attempts (a fallback is named) and stability."""
+        scf = self.scf
+        how = "after a fallback: " if scf.needed_fallback else ""
+        stability = scf.stability()
+        verdict = stability.description if stability.stable else f"UNSTABLE: {stability.description}"
+        return [
+            f"SCF: {scf.method} {self.scf_energy:.10f} Ha ({how}{'; '.join(scf.attempts)})",
+            f"SCF stability: {verdict}",
+        ]
 
     def _repr_html_(self) -> str:
         from .widgets.html import problem_html
@@ -148,15 +182,13 @@ class Problem:
 
 def determinant_energy(h1, h2, core_energy: float, alpha_occ, beta_occ) -> float:
     """Energy (Ha) of one determinant from active-space integrals (Slater–Condon rules)."""
-    a, b = list(alpha_occ), list(beta_occ)
-    energy = core_energy + sum(h1[i, i] for i in a) + sum(h1[i, i] for i in b)
-    for occ in (a, b):
-        for i in occ:
-            for j in occ:
-                energy += 0.5 * (h2[i, i, j, j] - h2[i, j, j, i])
-    for i in a:
-        for j in b:
-            energy += h2[i, i, j, j]
+    a, b = np.asarray(list(alpha_occ), dtype=int), np.asarray(list(beta_occ), dtype=int)
+    h1, h2 = np.asarray(h1), np.asarray(h2)
+    coulomb = np.einsum("iijj->ij", h2)  # (ii|jj)
+    exchange = np.einsum("ijji->ij", h2)  # (ij|ji)
+    same = coulomb - exchange
+    energy = core_energy + h1[a, a].sum() + h1[b, b].sum()
+    energy += 0.5 * same[np.ix_(a, a)].sum() + 0.5 * same[np.ix_(b, b)].sum() + coulomb[np.ix_(a, b)].sum()
     return float(energy)
 
 

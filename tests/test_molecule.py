@@ -97,3 +97,43 @@ def test_malformed_xyz_names_the_line(text, line):
 
 def test_errors_are_value_errors():
     assert issubclass(gk.XYZFormatError, ValueError) and issubclass(gk.ActiveSpaceError, ValueError)
+
+
+# Hill-order formulas, with and without carbon (common practice, no single source; Hill's indexing system) --------
+@pytest.mark.parametrize("symbols, multiplicity, formula", [
+    (("C", "O"), 1, "CO"),
+    (("O", "C", "O"), 1, "CO2"),
+    (("C", "N"), 2, "CN"),
+    (("C", "C"), 1, "C2"),
+    (("F", "C", "F", "F", "F"), 1, "CF4"),
+    (("C",), 3, "C"),
+    (("H", "C", "H", "H", "H"), 1, "CH4"),  # C, then H
+    (("Cl", "H", "C", "H", "H"), 1, "CH3Cl"),  # C, H, then the rest alphabetically
+    (("O", "H", "H"), 1, "H2O"),  # no carbon: all alphabetical
+    (("N", "H", "H", "H"), 1, "H3N"),
+    (("Na", "Cl"), 1, "ClNa"),
+])
+def test_formula_in_hill_order(symbols, multiplicity, formula):
+    coords = tuple((0.0, 0.0, 1.2 * k) for k in range(len(symbols)))
+    spec = gk.MoleculeSpec(symbols=symbols, coordinates=coords, multiplicity=multiplicity)
+    assert spec.formula == formula  # Hill order (common practice, no single source)
+    assert f"MoleculeSpec({formula}, {len(symbols)} atoms" in repr(spec)
+    assert spec.to_xyz().splitlines()[1] == formula
+
+
+@pytest.mark.slow
+def test_carbon_without_hydrogen_in_errors_and_a_run():
+    """CO and the C atom in STO-3G: the formula reaches error messages, reprs and a finished run's summary."""
+    from pyscf import gto, mcscf, scf
+
+    co = gk.MoleculeSpec(symbols=("C", "O"), coordinates=((0, 0, 0), (0, 0, 1.128)))  # NIST CCCBDB r_e (from memory)
+    with pytest.raises(gk.ActiveSpaceError, match="CO has 14"):
+        co.pipeline().active_space(electrons=16, orbitals=10).problem()
+    carbon = gk.MoleculeSpec(symbols=("C",), coordinates=((0, 0, 0),), multiplicity=3)
+    pipeline = carbon.pipeline().active_space(electrons=4, orbitals=4).trial_state(gk.UCCSD()).minimiser(gk.BFGS())
+    assert repr(pipeline.problem()).startswith("Problem(C, 4e/4o")
+    result = pipeline.run()
+    assert result.converged and result.summary().startswith("MoleculeSpec(C, 1 atoms")
+    mf = scf.ROHF(gto.M(atom="C 0 0 0", basis="sto-3g", spin=2, verbose=0)).run(conv_tol=1e-10)
+    e_casci = mcscf.CASCI(mf, 4, (3, 1)).kernel()[0]
+    assert result.energy == pytest.approx(e_casci, abs=1e-6)  # PySCF CASCI (reference library); 36 determinants
