@@ -285,3 +285,22 @@ def test_result_files_without_baseline_checks_still_load(lih, tmp_path):
     persistence.write_json_atomic(data, tmp_path / "bad.json")
     with pytest.raises(gk.ResultFileError, match="suspect_baselines.ccsd"):
         gk.load_result(tmp_path / "bad.json")
+
+
+def test_scan_marks_the_points_where_a_baseline_is_suspect(monkeypatch, tmp_path):
+    from collections import OrderedDict
+
+    from groundkit import problem as problem_module
+
+    monkeypatch.setattr(problem_module, "_PROBLEM_CACHE", OrderedDict())  # fresh problems and SCF solutions
+    monkeypatch.setattr(chemistry, "_SCF_CACHE", OrderedDict())
+    monkeypatch.setattr(chemistry, "CC_STARTS", chemistry.CC_STARTS[:1])  # PySCF's defaults only
+    scan = gk.Pipeline().scan(_h2, [0.7414, 6.0], warm_start=False)
+    table = scan.table
+    assert list(table["suspect"]) == ["", "mp2, ccsd, ccsd(t)"]  # MP2 far below exact: breakdown
+    spurious = _pyscf_ccsd(_pyscf_mf(_h2(6.0))).e_tot
+    assert table["ccsd"][1] == pytest.approx(spurious, abs=1e-7)  # PySCF CCSD defaults: the spurious root
+    assert spurious > table["hf"][1]  # PySCF: above RHF, the reason for the flag
+    assert table["energy"][1] == pytest.approx(fci.FCI(_pyscf_mf(_h2(6.0))).kernel()[0], abs=1e-6)  # PySCF FCI
+    assert "data:image/png" in scan._repr_html_()
+    assert scan.plot(str(tmp_path / "scan.png"), baselines=("hf", "ccsd")).endswith("scan.png")

@@ -86,7 +86,7 @@ class ScanResult:
             for name in baseline_names:
                 b = r.baselines.get(name) if r else None
                 row[name] = np.nan if b is None else b
-            row["suspect"] = ", ".join(sorted(r.suspect_baselines)) if r else ""
+            row["suspect"] = ", ".join(k for k in r.baselines if k in r.suspect_baselines) if r else ""
             row["converged"] = bool(r.converged) if r else False
             row["iterations"] = r.iterations if r else 0
             row["parameters"] = np.array(r.parameters) if r else np.zeros(0)
