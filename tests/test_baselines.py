@@ -218,6 +218,7 @@ def test_h2_near_equilibrium_is_not_flagged(r, fresh):
     assert problem.baselines.note("ccsd") == ""  # accepted at the first start
 
 
+@pytest.mark.slow  # several PySCF CCSD runs (a few seconds on a quiet machine)
 def test_stretched_h4_ccsd_below_exact_is_marked_suspect(fresh):
     spec = gk.MoleculeSpec(symbols=("H",) * 4, coordinates=tuple((0, 0, 2.0 * i) for i in range(4)))
     problem = fresh(spec)
@@ -260,6 +261,7 @@ def _casci(mf, n_orbitals: int, n_electrons: int) -> float:
     return float(mc.kernel()[0])
 
 
+@pytest.mark.slow  # several PySCF CCSD runs (a few seconds on a quiet machine)
 def test_t1_diagnostic_matches_pyscf_and_its_open_shell_form_reduces_to_it(h2o):
     b = h2o.pipeline().active_space(frozen_core=True).problem().baselines
     mf = _pyscf_mf(h2o)
@@ -287,6 +289,7 @@ def test_result_files_without_baseline_checks_still_load(lih, tmp_path):
         gk.load_result(tmp_path / "bad.json")
 
 
+@pytest.mark.slow  # several PySCF CCSD runs (a few seconds on a quiet machine)
 def test_scan_marks_the_points_where_a_baseline_is_suspect(monkeypatch, tmp_path):
     from collections import OrderedDict
 
