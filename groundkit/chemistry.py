@@ -330,7 +330,8 @@ class CorrelatedEnergy:
 
     ``diagnostics``: ``t1_diagnostic`` (Lee & Taylor's T1 for CCSD), ``largest_t1``, ``largest_t2`` (largest
     amplitude magnitudes) for CCSD and CCSD(T); ``reference_weight`` (c0^2) for CISD. ``attempts`` lists each
-    start in order with its outcome; the last one marked 'accepted' gave ``energy``.
+    CCSD start in order with its outcome; the one marked 'accepted' (or, when none passed, 'kept') gave
+    ``energy``.
     """
 
     energy: float
