@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import warnings
 from collections import OrderedDict
-from collections.abc import Iterator
+from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -459,11 +459,43 @@ def natural_occupations(scf: ScfSolution, frozen: list[int]) -> np.ndarray:
     return np.clip(occupations, 0.0, 2.0)
 
 
-def correlated_baseline(scf: ScfSolution, method: str, frozen: list[int]) -> float:
-    """Total energy (Ha) of 'mp2', 'cisd', 'ccsd' or 'ccsd(t)' with the orbitals in ``frozen`` left out.
+@dataclass(frozen=True)
+class CorrelatedEnergy:
+    """One correlated baseline: total energy (Ha), amplitude diagnostics, and every solver start tried.
 
-    Open shells use PySCF's unrestricted codes on the ROHF orbitals. Raises ``ConvergenceError`` when the
-    iterative method does not converge.
+    ``diagnostics``: ``t1_diagnostic`` (Lee & Taylor's T1 for CCSD), ``largest_t1``, ``largest_t2`` (largest
+    amplitude magnitudes) for CCSD and CCSD(T); ``reference_weight`` (c0^2) for CISD. ``attempts`` lists each
+    CCSD start in order with its outcome; the one marked 'accepted' (or, when none passed, 'kept') gave
+    ``energy``.
+    """
+
+    energy: float
+    diagnostics: dict[str, float] = field(default_factory=dict)
+    attempts: tuple[str, ...] = ()
+
+
+PlausibilityCheck = Callable[[float], "str | None"]
+"""Given a total energy (Ha), the reason it cannot be right, or None when it passes."""
+
+CC_LEVEL_SHIFT = 0.5  # Ha; a preconditioner shift: it changes the iteration, not the CC equations
+# CCSD starts, tried in order until one converges to a plausible solution (see docs/baselines.md)
+CC_STARTS: tuple[tuple[str, dict[str, Any]], ...] = (
+    ("PySCF defaults (MP2 amplitudes, DIIS)", {}),
+    (f"MP2 amplitudes, {CC_LEVEL_SHIFT} Ha level shift, DIIS", {"level_shift": CC_LEVEL_SHIFT}),
+    (f"MP2 amplitudes, {CC_LEVEL_SHIFT} Ha level shift, no DIIS", {"level_shift": CC_LEVEL_SHIFT, "diis": False}),
+    (f"CISD amplitudes, {CC_LEVEL_SHIFT} Ha level shift, DIIS", {"level_shift": CC_LEVEL_SHIFT, "start": "cisd"}),
+)
+
+
+def correlated_baseline(
+    scf: ScfSolution, method: str, frozen: list[int], check: PlausibilityCheck | None = None
+) -> CorrelatedEnergy:
+    """'mp2', 'cisd', 'ccsd' or 'ccsd(t)' (total energy in Ha) with the orbitals in ``frozen`` left out.
+
+    Open shells use PySCF's unrestricted codes on the ROHF orbitals. CCSD is retried from the starts in
+    ``CC_STARTS`` while a start raises, does not converge or gives an energy that ``check`` rejects; when every
+    converged start is rejected the first converged one is returned (the caller flags it). Raises
+    ``ConvergenceError`` when no start converges.
     """
     from pyscf import ci, mp
 
@@ -473,36 +505,110 @@ def correlated_baseline(scf: ScfSolution, method: str, frozen: list[int]) -> flo
         solver = mp.MP2(mf, frozen=frozen_arg)
         solver.verbose = 0
         solver.kernel()
-        return float(solver.e_tot)
+        return CorrelatedEnergy(float(solver.e_tot))
     if method == "cisd":
         solver = ci.CISD(mf, frozen=frozen_arg)
         solver.verbose = 0
         solver.max_cycle = CC_MAX_CYCLE
         solver.kernel()
         _require_converged(solver, "CISD")
-        return float(solver.e_tot)
+        c0 = float(np.ravel(solver.ci)[0])
+        return CorrelatedEnergy(float(solver.e_tot), {"reference_weight": c0 * c0})
     if method in ("ccsd", "ccsd(t)"):
-        solver = _ccsd_solver(scf, frozen_arg)
+        solver, attempts = _ccsd_solver(scf, frozen_arg, check)
+        diagnostics = _cc_diagnostics(solver)
         if method == "ccsd":
-            return float(solver.e_tot)
-        return float(solver.e_tot + solver.ccsd_t())
+            return CorrelatedEnergy(float(solver.e_tot), diagnostics, attempts)
+        with np.errstate(all="ignore"):
+            return CorrelatedEnergy(float(solver.e_tot + solver.ccsd_t()), diagnostics, attempts)
     raise ValueError(f"unknown baseline method {method!r}")
 
 
-def _ccsd_solver(scf: ScfSolution, frozen_arg: list[int] | None) -> Any:
+def _ccsd_solver(scf: ScfSolution, frozen_arg: list[int] | None,
+                 check: PlausibilityCheck | None = None) -> tuple[Any, tuple[str, ...]]:
+    """The accepted CCSD solver for this frozen list and the starts tried (cached on the SCF object)."""
     key = tuple(frozen_arg or ())
     store = scf._mf.__dict__.setdefault("_groundkit_ccsd", {})
     if key not in store:
-        from pyscf import cc
-
-        solver = cc.CCSD(scf._mf, frozen=frozen_arg)
-        solver.verbose = 0
-        solver.max_cycle = CC_MAX_CYCLE
-        solver.conv_tol = 1e-9
-        solver.kernel()
-        _require_converged(solver, "CCSD")
-        store[key] = solver
+        store[key] = _search_ccsd(scf, frozen_arg, check)
+    if isinstance(store[key], ConvergenceError):
+        raise store[key]
     return store[key]
+
+
+def _search_ccsd(scf: ScfSolution, frozen_arg: list[int] | None,
+                 check: PlausibilityCheck | None) -> tuple[Any, tuple[str, ...]] | ConvergenceError:
+    """Try the starts of ``CC_STARTS`` in turn; the accepted (or kept) solver and the attempts, or the error."""
+    attempts: list[str] = []
+    kept: tuple[Any, int] | None = None  # the first converged but rejected solver, and its attempt
+    for label, options in CC_STARTS:
+        if options.get("start") == "cisd" and scf.method != "RHF":
+            continue  # the CISD-to-amplitude conversion in _run_ccsd is the closed-shell one
+        try:
+            solver = _run_ccsd(scf, frozen_arg, options)
+        except Exception as err:  # PySCF fails in many ways on hard cases (e.g. a singular DIIS system)
+            attempts.append(f"{label}: {type(err).__name__}: {' '.join(str(err).split())}")
+            continue
+        if not solver.converged or not np.isfinite(solver.e_tot):
+            attempts.append(f"{label}: did not converge in {solver.max_cycle} iterations")
+            continue
+        objection = check(float(solver.e_tot)) if check is not None else None
+        if objection is None:
+            attempts.append(f"{label}: accepted")
+            return solver, tuple(attempts)
+        attempts.append(f"{label}: {solver.e_tot:.8f} Ha rejected ({objection})")
+        kept = kept or (solver, len(attempts) - 1)
+    if kept is None:
+        return ConvergenceError("CCSD did not converge from any start: " + "; ".join(attempts))
+    attempts[kept[1]] += "; kept, as no start passed the checks"
+    return kept[0], tuple(attempts)
+
+
+def _run_ccsd(scf: ScfSolution, frozen_arg: list[int] | None, options: dict[str, Any]) -> Any:
+    from pyscf import cc, ci
+
+    solver = cc.CCSD(scf._mf, frozen=frozen_arg)
+    solver.verbose = 0
+    solver.max_cycle = CC_MAX_CYCLE
+    solver.conv_tol = 1e-9
+    solver.level_shift = options.get("level_shift", 0.0)
+    if options.get("diis", True) is False:
+        solver.diis = False
+    t1 = t2 = None
+    with warnings.catch_warnings(), np.errstate(all="ignore"):
+        warnings.simplefilter("ignore", RuntimeWarning)
+        if options.get("start") == "cisd":
+            start = ci.CISD(scf._mf, frozen=frozen_arg)
+            start.verbose = 0
+            start.max_cycle = CC_MAX_CYCLE
+            start.kernel()
+            c0, c1, c2 = start.cisdvec_to_amplitudes(start.ci)
+            t1 = c1 / c0
+            t2 = c2 / c0 - np.einsum("ia,jb->ijab", t1, t1)  # closed shell: C2 = T2 + T1 T1 (alpha-beta block)
+        solver.kernel(t1=t1, t2=t2)
+    return solver
+
+
+def _cc_diagnostics(solver: Any) -> dict[str, float]:
+    """T1 diagnostic and the largest single and double amplitudes of a converged CCSD solver.
+
+    T1 = sqrt(sum of squared spin-orbital singles / (2 N)), N the correlated electrons: for closed shells
+    (PySCF's t1 holds the alpha singles, equal to the beta ones) this is Lee & Taylor's sqrt(|t1|^2 / N), as
+    in PySCF's ``get_t1_diagnostic``; for open shells it sums both spins of the unrestricted amplitudes.
+    """
+    if isinstance(solver.t1, (tuple, list)):  # unrestricted: (t1a, t1b), (t2aa, t2ab, t2bb)
+        singles, doubles = [np.asarray(t) for t in solver.t1], [np.asarray(t) for t in solver.t2]
+        n_correlated = singles[0].shape[0] + singles[1].shape[0]
+        squares = sum(float(np.sum(t * t)) for t in singles)
+    else:
+        singles, doubles = [np.asarray(solver.t1)], [np.asarray(solver.t2)]
+        n_correlated = 2 * singles[0].shape[0]
+        squares = 2.0 * float(np.sum(singles[0] ** 2))
+    return {
+        "t1_diagnostic": float(np.sqrt(squares / (2 * n_correlated))) if n_correlated else 0.0,
+        "largest_t1": max((float(np.max(np.abs(t))) for t in singles if t.size), default=0.0),
+        "largest_t2": max((float(np.max(np.abs(t))) for t in doubles if t.size), default=0.0),
+    }
 
 
 def _require_converged(solver: Any, name: str) -> None:

@@ -37,6 +37,8 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
         "stop_reason": result.stop_reason,
         "reference": asdict(result.reference),
         "baselines": dict(result.baselines),
+        "suspect_baselines": dict(result.suspect_baselines),
+        "baseline_notes": dict(result.baseline_notes),
         "amplitudes": dict(result.amplitudes),
         "fidelity": float(result.fidelity),
         "spin_square": float(result.spin_square),
@@ -138,6 +140,9 @@ def result_from_dict(data: Any, source: str = "data") -> RunResult:
                                          "two_qubit_gates", "depth")}),
         provenance=v.obj(data, "provenance", dict),
         growth=tuple(v.growth(data)) if "growth" in data else (),  # files written before adaptive runs have none
+        # files written before the baseline checks have neither
+        suspect_baselines=v.string_map(data, "suspect_baselines") if "suspect_baselines" in data else {},
+        baseline_notes=v.string_map(data, "baseline_notes") if "baseline_notes" in data else {},
     )
 
 
@@ -196,6 +201,13 @@ class _Validator:
         if not all(isinstance(x, str) for x in values):
             raise self.fail(key, "a list of strings", values)
         return values
+
+    def string_map(self, data: dict, key: str) -> dict[str, str]:
+        values = self.obj(data, key, dict)
+        for k, x in values.items():
+            if not isinstance(x, str):
+                raise self.fail(f"{key}.{k}", "a string", x)
+        return dict(values)
 
     def number_map(self, data: dict, key: str, nullable: bool = False) -> dict:
         values = self.obj(data, key, dict)

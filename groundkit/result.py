@@ -104,6 +104,16 @@ class RunResult:
     """Exact energy (Ha) of the final parameters; equals ``energy`` for exact estimators."""
     growth: tuple[dict[str, Any], ...] = ()
     """Adaptive runs only: one plain-data record per growth step (see ``groundkit.adaptive.GrowthStep``)."""
+    suspect_baselines: dict[str, str] = field(default_factory=dict)
+    """Baseline -> why its value failed a plausibility check (see docs/baselines.md); absent when it passed."""
+    baseline_notes: dict[str, str] = field(default_factory=dict)
+    """Baseline -> why it is missing or suspect, or how it was found; absent when there is nothing to say."""
+
+    def baseline_status(self, name: str) -> str:
+        """'missing', 'suspect' or 'ok' for one baseline."""
+        if self.baselines.get(name) is None:
+            return "missing"
+        return "suspect" if name in self.suspect_baselines else "ok"
 
     @property
     def error(self) -> float:
@@ -150,13 +160,16 @@ class RunResult:
             f"{'fidelity with exact state':<28}{self.fidelity:>18.6f}",
             f"{'<S^2> / <N>':<28}{self.spin_square:>18.6f} / {self.particle_number:.6f}",
             "",
-            f"{'baseline':<28}{'energy/Ha':>18}  {'vs exact/mHa':>12}",
+            f"{'baseline':<28}{'energy/Ha':>18}  {'vs exact/mHa':>12}  check",
         ]
         for name, value in self.baselines.items():
+            status = self.baseline_status(name)
+            why = self.suspect_baselines.get(name, "") if status == "suspect" else self.baseline_notes.get(name, "")
+            check = f"  {'SUSPECT' if status == 'suspect' else status}{': ' + why if why and status != 'ok' else ''}"
             if value is None:
-                lines.append(f"  {name:<26}{'—':>18}")
+                lines.append(f"  {name:<26}{'—':>18}  {'':>12}{check}")
             else:
-                lines.append(f"  {name:<26}{value:>18.10f}  {1000 * (value - self.reference.energy):>12.4f}")
+                lines.append(f"  {name:<26}{value:>18.10f}  {1000 * (value - self.reference.energy):>12.4f}{check}")
         r = self.resources
         known = {f.name: getattr(r, f.name) for f in fields(r) if getattr(r, f.name) is not None}
         lines += ["", "resources      " + ", ".join(f"{k.replace('_', ' ')} {v}" for k, v in known.items())]

@@ -74,7 +74,6 @@ def build_result(
         wall_times=tuple(float(r.wall_time) for r in records),
         evaluations=tuple(int(r.evaluations) for r in records),
     )
-    baselines = {name: problem.baselines[name] for name in problem.baselines}
     return RunResult(
         energy=float(final_energy),
         standard_error=float(standard_error),
@@ -87,7 +86,7 @@ def build_result(
         reference=ReferenceRecord(energy=reference.energy, multiplicity=reference.multiplicity,
                                   spin_square=reference.spin_square, amplitudes=reference.amplitudes,
                                   method=reference.method),
-        baselines=baselines,
+        **problem.baselines.result_fields(),  # values, suspect ones and notes; never raises
         amplitudes={label: float(np.real(phase * a)) for label, a in objective.amplitudes(theta).items()},
         fidelity=overlap * overlap / norm,
         spin_square=float(objective.spin_square(theta)),

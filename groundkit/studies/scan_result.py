@@ -64,8 +64,9 @@ class ScanResult:
     @property
     def table(self) -> Any:
         """pandas DataFrame, one row per point: value, energy, reference, error (Ha), error_mha, one column per
-        baseline (Ha), verdict ('within', 'outside' or 'uncertain', see ``RunResult.verdict``), converged,
-        iterations, parameters, wall_time (s), stderr (Ha, sampled estimators only), start, orbital_match, failure.
+        baseline (Ha), suspect (comma-separated baselines that failed a plausibility check at that point),
+        verdict ('within', 'outside' or 'uncertain', see ``RunResult.verdict``), converged, iterations,
+        parameters, wall_time (s), stderr (Ha, sampled estimators only), start, orbital_match, failure.
         The stderr column appears when some point has a non-zero standard error."""
         import pandas as pd
 
@@ -85,6 +86,7 @@ class ScanResult:
             for name in baseline_names:
                 b = r.baselines.get(name) if r else None
                 row[name] = np.nan if b is None else b
+            row["suspect"] = ", ".join(k for k in r.baselines if k in r.suspect_baselines) if r else ""
             row["verdict"] = r.verdict if r else None
             row["converged"] = bool(r.converged) if r else False
             row["iterations"] = r.iterations if r else 0

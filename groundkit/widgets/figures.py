@@ -118,11 +118,22 @@ def draw_scan(ax: Any, table: Any, label: str, baselines: tuple[str, ...] = ("hf
     for colour, name in zip(palette.BASELINES, baselines):
         if name in table:
             ax.plot(table["value"], table[name], ls=(0, (4, 3)), color=colour, label=name)
+            flagged = _flagged(table, name)
+            if flagged.any():  # points where the baseline failed a plausibility check
+                ax.plot(table["value"][flagged], table[name][flagged], "x", ms=7, color=colour,
+                        label=f"{name} (suspect)")
     ax.plot(table["value"], table["energy"], "o", color=palette.TRIAL, ms=5, label=label)
     ax.set_xlabel("scan value")
     ax.set_ylabel("energy / Ha")
     ax.grid(alpha=0.3)
     ax.legend(fontsize=8)
+
+
+def _flagged(table: Any, name: str) -> Any:
+    """Boolean column: the scan table's ``suspect`` entry of each point names ``name``."""
+    if "suspect" not in table:
+        return table["value"] != table["value"]
+    return table["suspect"].fillna("").map(lambda text: name in [s.strip() for s in str(text).split(",")])
 
 
 def run_figure(energy: EnergySeries, amplitudes: AmplitudeSeries | None) -> Any:

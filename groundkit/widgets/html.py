@@ -17,7 +17,9 @@ _STYLE = ("<style>.gk-box{font-family:sans-serif;font-size:13px;line-height:1.35
           ".gk-box table{border-collapse:collapse;margin:4px 0}"
           ".gk-box td,.gk-box th{padding:2px 10px;border-bottom:1px solid #ddd;text-align:right}"
           ".gk-box th{background:#f2f2f2}.gk-box td.l,.gk-box th.l{text-align:left}"
-          ".gk-box .gk-active{font-weight:bold}</style>")
+          ".gk-box .gk-active{font-weight:bold}"
+          ".gk-box .gk-note{display:inline-block;max-width:420px;text-align:left;font-size:11px;color:#555}"
+          "</style>")
 VERDICT_MARK = {"within": ("✔", palette.GREEN), "outside": ("✘", palette.VERMILION), "uncertain": ("?", palette.ORANGE)}
 
 
@@ -54,12 +56,26 @@ def molecule_html(molecule: Any) -> str:
     return box(f"Molecule {molecule.name or molecule.formula}", facts, "<div>geometry</div>", geometry)
 
 
-def baseline_rows(baselines: Any, reference: float) -> list[list[Any]]:
+BASELINE_HEADER = ["baseline", "energy / Ha", "vs exact / mHa", "check", "note"]
+CHECK_MARK = {"ok": ("ok", palette.GREEN), "suspect": ("⚠ suspect", palette.VERMILION),
+              "missing": ("missing", palette.GREY)}
+
+
+def baseline_rows(baselines: Any, reference: float, suspect: dict[str, str] | None = None,
+                  notes: dict[str, str] | None = None) -> list[list[Any]]:
+    """One row per baseline: name, energy, error against ``reference`` (mHa), check mark and note. A suspect
+    value keeps its number, struck through, with the reason beside it."""
+    suspect, notes = suspect or {}, notes or {}
     rows = []
     for name in baselines:
         value = baselines[name]
+        status = "missing" if value is None else "suspect" if name in suspect else "ok"
         error = "—" if value is None else f"{1000 * (value - reference):+.3f}"
-        rows.append([escape(name), _energy(value), error])
+        energy = _energy(value) if status != "suspect" else f"<s>{_energy(value)}</s>"
+        text, colour = CHECK_MARK[status]
+        mark = f"<span style='color:{colour};font-weight:bold'>{escape(text)}</span>"
+        note = notes.get(name, suspect.get(name, ""))
+        rows.append([escape(name), energy, error, mark, f"<span class='gk-note'>{escape(note)}</span>"])
     return rows
 
 
@@ -77,8 +93,9 @@ def problem_html(problem: Any) -> str:
         ["qubits (spin orbitals)", problem.n_qubits], ["determinants", f"{problem.n_determinants:,}"],
         ["exact reference / Ha", f"{reference.energy:.8f} (multiplicity {reference.multiplicity})"]], left=2)
     orbitals = table(["orbital", "energy / Ha", "HF occupation", "role"], orbital_rows, row_classes=classes)
-    baselines = table(["baseline", "energy / Ha", "vs exact / mHa"],
-                      baseline_rows(problem.baselines, reference.energy))
+    record = problem.baselines.result_fields()
+    baselines = table(BASELINE_HEADER, baseline_rows(record["baselines"], reference.energy,
+                                                     record["suspect_baselines"], record["baseline_notes"]))
     return box(f"Problem {problem.molecule.formula}", facts, "<div>orbitals (● = active)</div>", orbitals,
                baselines)
 
@@ -106,8 +123,8 @@ def result_html(result: Any) -> str:
     resources = table([k for k, _ in known], [[v for _, v in known]], left=0)
     setup = table(["role", "component"], [[escape(k.replace("_", " ")), escape(str(v))] for k, v in conf.items()
                                           if k not in ("geometry_xyz", "molecule")], left=2)
-    baselines = table(["baseline", "energy / Ha", "vs exact / mHa"],
-                      baseline_rows(result.baselines, result.reference.energy))
+    baselines = table(BASELINE_HEADER, baseline_rows(result.baselines, result.reference.energy,
+                                                     result.suspect_baselines, result.baseline_notes))
     title = f"Run result {_molecule_name(conf)}"
     return box(title, facts, "<div>resources</div>", resources, setup, baselines)
 

@@ -28,8 +28,10 @@ class RunView(widgets.VBox):
 
     def __init__(self, reference: float | None = None, baselines: dict | None = None,
                  exact_amplitudes: dict[str, float] | None = None,
-                 amplitudes_of: Callable[[Any], dict[str, float]] | None = None, title: str = "") -> None:
-        self.energy = EnergySeries(reference=reference, baselines=known_baselines(baselines or {}))
+                 amplitudes_of: Callable[[Any], dict[str, float]] | None = None, title: str = "",
+                 suspect_baselines: Any = ()) -> None:
+        self.energy = EnergySeries(reference=reference,
+                                   baselines=known_baselines(baselines or {}, suspect_baselines))
         self.exact_amplitudes = dict(exact_amplitudes or {})
         self.amplitudes: AmplitudeSeries | None = (
             AmplitudeSeries.from_amplitudes({}, self.exact_amplitudes) if self.exact_amplitudes else None)
@@ -48,7 +50,7 @@ class RunView(widgets.VBox):
     def from_result(cls, result: Any) -> RunView:
         """The final view of a finished run."""
         view = cls(reference=result.reference.energy, baselines=result.baselines,
-                   exact_amplitudes=result.reference.amplitudes)
+                   exact_amplitudes=result.reference.amplitudes, suspect_baselines=result.suspect_baselines)
         view.finish(result)
         return view
 
@@ -62,9 +64,11 @@ class RunView(widgets.VBox):
         amplitudes_of = None
         if not isinstance(pipeline.resolved_components()["trial_state"], Adaptive):  # grown during the run
             amplitudes_of = pipeline.objective().amplitudes
-        return cls(reference=reference.energy, baselines={k: problem.baselines[k] for k in problem.baselines},
+        record = problem.baselines.result_fields()
+        return cls(reference=reference.energy, baselines=record["baselines"],
                    exact_amplitudes=reference.amplitudes, amplitudes_of=amplitudes_of,
-                   title=problem.molecule.name or problem.molecule.formula)
+                   title=problem.molecule.name or problem.molecule.formula,
+                   suspect_baselines=record["suspect_baselines"])
 
     # feeding ----------------------------------------------------------------------------------------------------
     def update(self, record: Any) -> None:

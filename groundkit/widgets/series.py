@@ -35,7 +35,8 @@ class EnergySeries:
         history = result.history
         return cls(iterations=list(range(1, len(history) + 1)), energies=list(history.energies),
                    gradient_norms=list(history.gradient_norms), reference=result.reference.energy,
-                   baselines=known_baselines(result.baselines), standard_error=float(result.standard_error))
+                   baselines=known_baselines(result.baselines, result.suspect_baselines),
+                   standard_error=float(result.standard_error))
 
 
 @dataclass
@@ -60,6 +61,8 @@ class AmplitudeSeries:
         return cls.from_amplitudes(result.amplitudes, result.reference.amplitudes, count)
 
 
-def known_baselines(baselines: Any) -> dict[str, float]:
-    """Baselines with a value, without 'casci' (in the active space it is the exact reference itself)."""
-    return {k: float(v) for k, v in dict(baselines).items() if v is not None and k != "casci"}
+def known_baselines(baselines: Any, suspect: Any = ()) -> dict[str, float]:
+    """Baselines with a value, without 'casci' (in the active space it is the exact reference itself); the names
+    in ``suspect`` (failed a plausibility check) are labelled 'name (suspect)'."""
+    return {(f"{k} (suspect)" if k in suspect else k): float(v) for k, v in dict(baselines).items()
+            if v is not None and k != "casci"}
