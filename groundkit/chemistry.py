@@ -326,13 +326,15 @@ def _projected_lowest_states(h1, h2, core_energy, n_alpha, n_beta, spin, n_state
         return fci.direct_spin1.contract_2e(absorbed, x.reshape(shape), norb, nelec, links).ravel()
 
     hdiag = np.asarray(fci.direct_spin1.make_hdiag(h1, h2, norb, nelec)).ravel()
+    # H on the lowest-diagonal determinants (PySCF's pspace): start vectors, and PySCF's own preconditioner
+    addresses, h_small = fci.direct_spin1.pspace(h1, h2, norb, nelec, hdiag, min(400, hdiag.size))
+    small_energies, small_vectors = np.linalg.eigh(h_small)
+    olsen = fci.direct_spin1.make_pspace_precond(hdiag, small_energies, small_vectors, addresses, level_shift=1e-3)
 
-    def precondition(residual: np.ndarray, e0: float, *_: Any) -> np.ndarray:
-        denominator = hdiag - e0
-        denominator[np.abs(denominator) < 1e-8] = 1e-8
-        return project(residual / denominator)
+    def precondition(residual: np.ndarray, e0: float, x0: np.ndarray, *_: Any) -> np.ndarray:
+        return project(olsen(residual, e0, x0))
 
-    start = _spin_start_vectors(h1, h2, nelec, hdiag, project, shape, n_states, seed)
+    start = _spin_start_vectors(small_vectors, addresses, project, hdiag.size, n_states, seed)
     converged, _, vectors = lib.davidson1(
         lambda xs: [apply_h(x) for x in xs], start, precondition, tol=FCI_CONV_TOL, max_cycle=DAVIDSON_MAX_CYCLE,
         max_space=max(12, 2 * n_states + 6), nroots=n_states, verbose=0,
@@ -359,15 +361,9 @@ def _projected_lowest_states(h1, h2, core_energy, n_alpha, n_beta, spin, n_state
     return sorted(found, key=lambda t: t[0])
 
 
-def _spin_start_vectors(h1, h2, nelec, hdiag, project, shape, n_states, seed):
-    """Orthonormal spin-S start vectors: projected eigenvectors of H on the lowest-diagonal determinants (PySCF's
-    ``pspace``), lowest first, plus one projected seeded random vector that overlaps every spin-S eigenvector."""
-    from pyscf import fci
-
-    norb = h1.shape[0]
-    dim = shape[0] * shape[1]
-    addresses, h0 = fci.direct_spin1.pspace(h1, h2, norb, nelec, hdiag, min(400, dim))
-    _, small = np.linalg.eigh(h0)
+def _spin_start_vectors(small_vectors, addresses, project, dim, n_states, seed):
+    """Orthonormal spin-S start vectors: the projected eigenvectors of H on the lowest-diagonal determinants,
+    lowest first, then one projected seeded random vector, which overlaps every spin-S eigenvector."""
     kept: list[np.ndarray] = []
 
     def add(v: np.ndarray, threshold: float) -> None:
@@ -378,11 +374,11 @@ def _spin_start_vectors(h1, h2, nelec, hdiag, project, shape, n_states, seed):
         if norm > threshold:
             kept.append(v / norm)
 
-    for j in range(small.shape[1]):
+    for j in range(small_vectors.shape[1]):
         if len(kept) >= n_states + 2:
             break
         v = np.zeros(dim)
-        v[addresses] = small[:, j]
+        v[addresses] = small_vectors[:, j]
         add(v, 0.3)
     add(np.random.default_rng(seed).standard_normal(dim), 1e-3)
     return kept
@@ -393,15 +389,24 @@ def _spin_projector(norb: int, n_alpha: int, n_beta: int, spin: float):
 
     P_S = prod over the other spins S' of the block of (S^2 - S'(S'+1)) / (S(S+1) - S'(S'+1)) (P.-O. Lowdin,
     Phys. Rev. 97, 1509 (1955)); exact, since S^2 has only the eigenvalues S'(S'+1) of ``spin_values`` there.
+    For Sz = 0 the spin rotation exp(-i pi S_y) maps determinant (A, B) to (B, A) and multiplies a spin-S state by
+    (-1)^S, so (c + (-1)^S c^T) / 2 removes every spin of the other parity first and halves the S^2 products.
     """
     shape = (_binom(norb, n_alpha), _binom(norb, n_beta))
     apply_s2 = _spin_square_operator(norb, n_alpha, n_beta)
     target = spin * (spin + 1)
-    others = [s * (s + 1) for s in spin_values(norb, n_alpha, n_beta) if abs(s - spin) > 1e-9]
+    others = [s for s in spin_values(norb, n_alpha, n_beta) if abs(s - spin) > 1e-9]
+    flip = None
+    if n_alpha == n_beta:
+        flip = 1.0 if int(round(spin)) % 2 == 0 else -1.0
+        others = [s for s in others if int(round(s - spin)) % 2 == 0]
+    factors = [s * (s + 1) for s in others]
 
     def project(vector: np.ndarray) -> np.ndarray:
         v = np.asarray(vector, dtype=float).reshape(shape)
-        for other in others:
+        if flip is not None:
+            v = 0.5 * (v + flip * v.T)
+        for other in factors:
             v = (apply_s2(v) - other * v) / (target - other)
         return v.ravel()
 

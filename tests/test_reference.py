@@ -191,6 +191,22 @@ def test_more_states_than_the_spin_holds_gives_all_of_them():
         assert [s[0] for s in states] == pytest.approx(expected, abs=1e-10)  # PySCF, dense diagonalisation
 
 
+def test_the_iterative_route_refuses_to_return_an_unchecked_state(monkeypatch):
+    """The residual check after the spin-projected Davidson run is live: with a zero tolerance it must refuse."""
+    h1, h2, core_energy, nelec = _pyscf_active_hamiltonian(water(), 4, 4)
+    monkeypatch.setattr(chemistry, "RESIDUAL_TOLERANCE", 0.0)
+    with pytest.raises(gk.ConvergenceError, match="residual"):
+        chemistry.lowest_states(h1, h2, core_energy, *nelec, 0.0, dense=False)
+
+
+def test_the_iterative_route_is_reproducible():
+    h1, h2, core_energy, nelec = _pyscf_active_hamiltonian(diatomic("O", "O", 1.21, basis="6-31g"), 6, 8)
+    first, second = (chemistry.lowest_states(h1, h2, core_energy, *nelec, 0.0, 2, dense=False) for _ in range(2))
+    for a, b in zip(first, second):  # same seed, same states (up to the last bits of threaded sums)
+        assert a[0] == pytest.approx(b[0], abs=1e-12)
+        assert np.allclose(a[1], b[1], atol=1e-9)
+
+
 def test_an_impossible_spin_is_refused():
     h1, h2, core_energy, nelec = _pyscf_active_hamiltonian(diatomic("H", "H", 0.7414), 2, 2)
     with pytest.raises(gk.ActiveSpaceError, match="S=2.*possible: 0, 1"):
