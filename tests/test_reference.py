@@ -98,7 +98,9 @@ def test_charged_species_matches_pyscf_fci():
     mf = _pyscf_scf(ammonium)
     solver = fci.FCI(mf)
     solver.conv_tol = 1e-12
-    e_fci, _ = solver.kernel()
+    e_fci, ci = solver.kernel()
+    ss, _ = fci.spin_op.spin_square0(ci, mf.mo_coeff.shape[1], mf.mol.nelec)
+    assert ss == pytest.approx(0.0, abs=1e-6)  # the block's lowest state is a singlet, so the lowest singlet (PySCF)
     assert problem.n_electrons == 10 and problem.n_determinants == 15876  # C(9,5)^2
     assert problem.reference.energy == pytest.approx(e_fci, abs=1e-8)  # PySCF FCI (reference library)
 
@@ -128,18 +130,22 @@ def _water_cation():
     return gk.MoleculeSpec(symbols=water().symbols, coordinates=water().coordinates, charge=1, multiplicity=2)
 
 
-# (molecule, CASCI window, requested S, S(S+1) of the block's own lowest state). O2 at 1.21 Å is issue 12's case:
+# (molecule, CASCI window, requested S, S(S+1) of the block's own lowest state). Geometries are test geometries
+# near the experimental ones (O2 1.21 Å, OH 0.9697 Å; from memory), N2 stretched to 3 Å, H2O+ at the neutral
+# water geometry. The block's lowest spin is computed and asserted in the test. O2 at 1.21 Å is issue 12's case:
 # its Sz = 0 block holds the triplet ground state, then two singlets 4-5 mHa apart; the one-root spin-penalised
 # solver used to return the upper one.
 DENSE_CASES = [
     pytest.param(lambda: diatomic("O", "O", 1.21, basis="6-31g"), 6, 8, 0.0, 2.0, id="O2-singlet-6-31G-8e6o"),
-    pytest.param(lambda: diatomic("O", "O", 1.21, basis="cc-pvdz"), 6, 8, 0.0, 2.0, id="O2-singlet-ccpVDZ-8e6o"),
-    pytest.param(lambda: diatomic("O", "O", 1.21, basis="6-31g"), 8, 12, 0.0, 2.0, id="O2-singlet-6-31G-12e8o"),
+    pytest.param(lambda: diatomic("O", "O", 1.21, basis="cc-pvdz"), 6, 8, 0.0, 2.0, id="O2-singlet-ccpVDZ-8e6o",
+                 marks=pytest.mark.slow),
+    pytest.param(lambda: diatomic("O", "O", 1.21, basis="6-31g"), 8, 12, 0.0, 2.0, id="O2-singlet-6-31G-12e8o",
+                 marks=pytest.mark.slow),
     pytest.param(_methylene, 6, 6, 0.0, 2.0, id="CH2-singlet-under-triplet-6e6o"),
-    pytest.param(lambda: _atom("O", basis="6-31g"), 5, 6, 0.0, 2.0, id="O-atom-singlet-under-3P-6e5o"),
+    pytest.param(lambda: _atom("O", basis="6-31g"), 4, 6, 0.0, 2.0, id="O-atom-singlet-under-3P-6e4o"),
     pytest.param(lambda: diatomic("N", "N", 3.0), 6, 6, 0.0, 12.0, id="N2-3A-singlet-under-septet-6e6o"),
     pytest.param(lambda: diatomic("O", "H", 0.9697, basis="6-31g", multiplicity=2), 7, 7, 0.5, 0.75,
-                 id="OH-doublet-7e7o"),
+                 id="OH-doublet-7e7o", marks=pytest.mark.slow),
     pytest.param(lambda: _atom("N", basis="6-31g", multiplicity=4), 8, 5, 1.5, 3.75, id="N-atom-quartet-5e8o"),
     pytest.param(_water_cation, 7, 9, 0.5, 0.75, id="H2O+-doublet-cation-9e7o"),
     pytest.param(lambda: diatomic("O", "O", 1.21, basis="6-31g", multiplicity=3), 6, 8, 1.0, 2.0,
