@@ -16,7 +16,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from .errors import BasisError, ConvergenceError, ScfFallbackWarning, ScfInstabilityWarning
+from .errors import ActiveSpaceError, BasisError, ConvergenceError, ScfFallbackWarning, ScfInstabilityWarning
 
 if TYPE_CHECKING:  # pragma: no cover
     from .molecule import MoleculeSpec
@@ -332,6 +332,15 @@ def active_integrals(
 
 # ---------------------------------------------------------------------------------------------------------------
 # exact solutions in a determinant space
+DENSE_STATE_LIMIT = 500
+"""Determinant blocks up to this size are diagonalised in full (LAPACK ``eigh``); larger ones by projected Davidson."""
+SPIN_TOLERANCE = 1e-6  # a returned state must have |<S^2> - S(S+1)| below this
+RESIDUAL_TOLERANCE = 1e-5  # Hartree; ||H c - E c|| of every returned state of the iterative solver
+DAVIDSON_MAX_CYCLE = 400
+SPARSE_SPIN_LIMIT = 6_000_000  # S+ and S- kept as sparse matrices up to this many entries (~75 MB)
+SPIN_START_SEED = 20_241  # seeds the random spin-S start vector of the iterative solver (same seed, same states)
+
+
 def lowest_states(
     h1: np.ndarray,
     h2: np.ndarray,
@@ -340,51 +349,66 @@ def lowest_states(
     n_beta: int,
     spin: float,
     n_states: int = 1,
+    *,
+    dense: bool | None = None,
+    seed: int = SPIN_START_SEED,
 ) -> list[tuple[float, np.ndarray, float]]:
     """The ``n_states`` lowest eigenstates of total spin ``spin`` (S) in the (n_alpha, n_beta) determinant block.
 
-    Returns (energy in Ha, CI vector in PySCF order, <S^2>) per state, ascending. States of other total spin
-    are excluded: when the plain Davidson solver's lowest states do not all have <S^2> = S(S+1) (within 1e-6),
-    a spin penalty steers it, every state is checked again, and more roots are requested until enough pass.
-    Blocks of at most 200 determinants are diagonalised in full.
-    """
-    from pyscf import fci
+    Returns (energy in Ha, CI vector in PySCF order, <S^2>) per state, ascending; fewer when the block holds
+    fewer states of spin S. No state of another spin can be returned, however many lie lower:
 
+    - blocks of at most ``DENSE_STATE_LIMIT`` determinants (or ``dense=True``) are diagonalised in full; the
+      eigenvalues come in ascending order, S^2 is diagonalised inside each degenerate cluster, and the first
+      ``n_states`` vectors with S(S+1) are kept (min-max principle: they are the lowest of that spin);
+    - larger blocks (or ``dense=False``) are solved by Davidson's method inside the spin-S subspace: every search
+      vector is passed through Lowdin's spin projector, so the solver's matrix is H restricted to spin S (H
+      commutes with S^2), and its lowest eigenvalues are by definition the lowest of spin S. A seeded random
+      spin-S vector joins the start vectors, so no spin-S eigenvector is orthogonal to the search space.
+
+    Every returned state is checked: <S^2> = S(S+1) within ``SPIN_TOLERANCE``, and for the iterative solver a
+    residual ||Hc - Ec|| below ``RESIDUAL_TOLERANCE`` Ha; otherwise :class:`ConvergenceError`.
+    """
     norb = h1.shape[0]
-    target = spin * (spin + 1)
+    allowed = spin_values(norb, n_alpha, n_beta)
+    if not any(abs(spin - s) < 1e-9 for s in allowed):
+        raise ActiveSpaceError(
+            f"total spin S={spin} is impossible for {n_alpha} alpha and {n_beta} beta electrons in {norb} "
+            f"orbitals; possible: {', '.join(f'{s:g}' for s in allowed)}"
+        )
+    if n_states < 1:
+        raise ActiveSpaceError(f"n_states={n_states}; ask for at least 1 state")
+    n_states = min(n_states, spin_state_count(norb, n_alpha + n_beta, spin))
     n_det = _binom(norb, n_alpha) * _binom(norb, n_beta)
-    if n_det <= 200:
-        return _dense_lowest_states(h1, h2, core_energy, n_alpha, n_beta, target, n_states)
-    shape = (_binom(norb, n_alpha), _binom(norb, n_beta))
-    # the plain solver first: when its lowest states already have spin S they are the answer
-    n_roots, penalty = min(n_states, n_det), False
-    while True:
-        solver = fci.direct_spin1.FCI()
-        solver.conv_tol = FCI_CONV_TOL
-        solver.max_cycle = 300
-        solver.verbose = 0
-        if penalty:
-            fci.addons.fix_spin_(solver, shift=0.5, ss=target)
-        _, vectors = solver.kernel(h1, h2, norb, (n_alpha, n_beta), nroots=n_roots)
-        vectors = [vectors] if n_roots == 1 else list(vectors)
-        found = []
-        for ci in vectors:
-            ci = np.asarray(ci).reshape(shape)
-            ss = spin_square(ci, norb, n_alpha, n_beta)
-            found.append((state_energy(h1, h2, core_energy, ci, n_alpha, n_beta), ci, ss))
-        kept = sorted((f for f in found if abs(f[2] - target) < 1e-6), key=lambda t: t[0])
-        if not penalty and len(kept) == len(found):
-            return kept[:n_states]
-        if penalty and (len(kept) >= n_states or n_roots >= n_det):
-            return kept[:n_states]
-        if not penalty:
-            penalty = True
-        else:
-            n_roots = min(2 * n_roots, n_det)
+    if dense is None:
+        dense = n_det <= DENSE_STATE_LIMIT
+    if dense:
+        return _dense_lowest_states(h1, h2, core_energy, n_alpha, n_beta, spin * (spin + 1), n_states)
+    return _projected_lowest_states(h1, h2, core_energy, n_alpha, n_beta, spin, n_states, seed)
+
+
+def spin_values(norb: int, n_alpha: int, n_beta: int) -> list[float]:
+    """Total spins S present in the (n_alpha, n_beta) block of ``norb`` orbitals: |Sz|, |Sz|+1, ..., S_max."""
+    n = n_alpha + n_beta
+    sz = abs(n_alpha - n_beta) / 2
+    s_max = min(n, 2 * norb - n) / 2
+    return [sz + k for k in range(int(round(s_max - sz)) + 1)]
+
+
+def spin_state_count(norb: int, n_electrons: int, spin: float) -> int:
+    """How many states of total spin S one determinant block with |Sz| <= S holds: D(S) - D(S+1).
+
+    D(M) = C(norb, N/2 + M) C(norb, N/2 - M) is the size of the Sz = M block; every spin-S multiplet has one
+    member in each block with |M| <= S.
+    """
+    def block(m: float) -> int:
+        return _binom(norb, int(round(n_electrons / 2 + m))) * _binom(norb, int(round(n_electrons / 2 - m)))
+
+    return block(spin) - block(spin + 1)
 
 
 def _dense_lowest_states(h1, h2, core_energy, n_alpha, n_beta, target, n_states):
-    """Full diagonalisation of a small determinant block, then selection by <S^2> (exact, for tests too)."""
+    """Full diagonalisation of a determinant block, then selection by <S^2> (exact; ``target`` = S(S+1))."""
     from pyscf import fci
 
     norb = h1.shape[0]
@@ -392,17 +416,17 @@ def _dense_lowest_states(h1, h2, core_energy, n_alpha, n_beta, target, n_states)
     dim = shape[0] * shape[1]
     _, hmat = fci.direct_spin1.pspace(h1, h2, norb, (n_alpha, n_beta), np=dim)  # every determinant, in order
     hmat = 0.5 * (hmat + hmat.T)
-    s2 = np.empty((dim, dim))
-    for k in range(dim):
-        unit = np.zeros(dim)
-        unit[k] = 1.0
-        s2[:, k] = fci.spin_op.contract_ss(unit.reshape(shape), norb, (n_alpha, n_beta)).ravel()
     energies, vectors = np.linalg.eigh(hmat)
-    return _resolve_degenerate(hmat, s2, energies, vectors, core_energy, target, n_states, shape)
+    apply_s2 = _spin_square_operator(norb, n_alpha, n_beta)
+    return _resolve_degenerate(hmat, apply_s2, energies, vectors, core_energy, target, n_states, shape)
 
 
-def _resolve_degenerate(hmat, s2, energies, vectors, core_energy, target, n_states, shape):
-    """Diagonalise S^2 inside each degenerate energy cluster so that every vector has sharp spin."""
+def _resolve_degenerate(hmat, apply_s2, energies, vectors, core_energy, target, n_states, shape):
+    """Walk the eigenvalues upwards; diagonalise S^2 inside each degenerate cluster so every vector has sharp spin.
+
+    ``energies`` ascending (Ha, without the core energy), ``vectors`` their columns; ``apply_s2`` maps a CI
+    array of ``shape`` to S^2 times it. States of spin S(S+1) = ``target`` are kept until ``n_states`` are found.
+    """
     kept = []
     k = 0
     dim = len(energies)
@@ -411,13 +435,180 @@ def _resolve_degenerate(hmat, s2, energies, vectors, core_energy, target, n_stat
         while end < dim and abs(energies[end] - energies[k]) < 1e-8:
             end += 1
         block = vectors[:, k:end]
-        ss_values, rot = np.linalg.eigh(block.T @ s2 @ block)
+        s2_block = np.column_stack([apply_s2(block[:, j].reshape(shape)).ravel() for j in range(end - k)])
+        ss_values, rot = np.linalg.eigh(0.5 * (block.T @ s2_block + s2_block.T @ block))
         for ss, r in zip(ss_values, rot.T):
-            if abs(ss - target) < 1e-6 and len(kept) < n_states:
+            if abs(ss - target) < SPIN_TOLERANCE and len(kept) < n_states:
                 v = block @ r
                 kept.append((float(v @ hmat @ v + core_energy), v.reshape(shape).copy(), float(ss)))
         k = end
     return kept
+
+
+def _projected_lowest_states(h1, h2, core_energy, n_alpha, n_beta, spin, n_states, seed):
+    """Davidson's method on H restricted to spin S: every search vector is spin-projected (see lowest_states)."""
+    from pyscf import fci, lib
+    from pyscf.fci import cistring
+
+    norb = h1.shape[0]
+    nelec = (n_alpha, n_beta)
+    shape = (_binom(norb, n_alpha), _binom(norb, n_beta))
+    project = _spin_projector(norb, n_alpha, n_beta, spin)
+    absorbed = fci.direct_spin1.absorb_h1e(h1, h2, norb, nelec, 0.5)
+    links = (cistring.gen_linkstr_index_trilidx(range(norb), n_alpha),
+             cistring.gen_linkstr_index_trilidx(range(norb), n_beta))
+
+    def apply_h(x: np.ndarray) -> np.ndarray:
+        return fci.direct_spin1.contract_2e(absorbed, x.reshape(shape), norb, nelec, links).ravel()
+
+    hdiag = np.asarray(fci.direct_spin1.make_hdiag(h1, h2, norb, nelec)).ravel()
+    # H on the lowest-diagonal determinants (PySCF's pspace): start vectors, and PySCF's own preconditioner
+    addresses, h_small = fci.direct_spin1.pspace(h1, h2, norb, nelec, hdiag, min(400, hdiag.size))
+    small_energies, small_vectors = np.linalg.eigh(h_small)
+    olsen = fci.direct_spin1.make_pspace_precond(hdiag, small_energies, small_vectors, addresses, level_shift=1e-3)
+
+    def precondition(residual: np.ndarray, e0: float, x0: np.ndarray, *_: Any) -> np.ndarray:
+        return project(olsen(residual, e0, x0))
+
+    start = _spin_start_vectors(small_vectors, addresses, project, hdiag.size, n_states, seed)
+    converged, _, vectors = lib.davidson1(
+        lambda xs: [apply_h(x) for x in xs], start, precondition, tol=FCI_CONV_TOL, max_cycle=DAVIDSON_MAX_CYCLE,
+        max_space=max(12, 2 * n_states + 6), nroots=n_states, verbose=0,
+    )
+    if not all(converged):
+        raise ConvergenceError(
+            f"the spin-projected Davidson solver did not converge {n_states} state(s) of S={spin} in "
+            f"{DAVIDSON_MAX_CYCLE} iterations ({shape[0] * shape[1]:,} determinants)"
+        )
+    found = []
+    for x in vectors:
+        x = project(np.asarray(x))
+        x /= np.linalg.norm(x)
+        ci = x.reshape(shape)
+        energy = state_energy(h1, h2, core_energy, ci, n_alpha, n_beta)
+        ss = spin_square(ci, norb, n_alpha, n_beta)
+        residual = float(np.linalg.norm(apply_h(x) - (energy - core_energy) * x))
+        if abs(ss - spin * (spin + 1)) > SPIN_TOLERANCE or residual > RESIDUAL_TOLERANCE:
+            raise ConvergenceError(
+                f"the spin-projected Davidson solver returned a state with <S^2>={ss:.8f} (wanted "
+                f"{spin * (spin + 1):g}) and residual {residual:.1e} Ha (accepted below {RESIDUAL_TOLERANCE:g})"
+            )
+        found.append((energy, ci, ss))
+    return sorted(found, key=lambda t: t[0])
+
+
+def _spin_start_vectors(small_vectors, addresses, project, dim, n_states, seed):
+    """Orthonormal spin-S start vectors: the projected eigenvectors of H on the lowest-diagonal determinants,
+    lowest first, then one projected seeded random vector, which overlaps every spin-S eigenvector."""
+    kept: list[np.ndarray] = []
+
+    def add(v: np.ndarray, threshold: float) -> None:
+        v = project(v)
+        for u in kept:
+            v -= np.dot(u, v) * u
+        norm = np.linalg.norm(v)
+        if norm > threshold:
+            kept.append(v / norm)
+
+    for j in range(small_vectors.shape[1]):
+        if len(kept) >= n_states + 2:
+            break
+        v = np.zeros(dim)
+        v[addresses] = small_vectors[:, j]
+        add(v, 0.3)
+    add(np.random.default_rng(seed).standard_normal(dim), 1e-3)
+    return kept
+
+
+def _spin_projector(norb: int, n_alpha: int, n_beta: int, spin: float):
+    """Lowdin's projector onto total spin S inside the (n_alpha, n_beta) block, as a function of a flat CI vector.
+
+    P_S = prod over the other spins S' of the block of (S^2 - S'(S'+1)) / (S(S+1) - S'(S'+1)) (P.-O. Lowdin,
+    Phys. Rev. 97, 1509 (1955)); exact, since S^2 has only the eigenvalues S'(S'+1) of ``spin_values`` there.
+    For Sz = 0 the spin rotation exp(-i pi S_y) maps determinant (A, B) to (B, A) and multiplies a spin-S state by
+    (-1)^S, so (c + (-1)^S c^T) / 2 removes every spin of the other parity first and halves the S^2 products.
+    """
+    shape = (_binom(norb, n_alpha), _binom(norb, n_beta))
+    apply_s2 = _spin_square_operator(norb, n_alpha, n_beta)
+    target = spin * (spin + 1)
+    others = [s for s in spin_values(norb, n_alpha, n_beta) if abs(s - spin) > 1e-9]
+    flip = None
+    if n_alpha == n_beta:
+        flip = 1.0 if int(round(spin)) % 2 == 0 else -1.0
+        others = [s for s in others if int(round(s - spin)) % 2 == 0]
+    factors = [s * (s + 1) for s in others]
+
+    def project(vector: np.ndarray) -> np.ndarray:
+        v = np.asarray(vector, dtype=float).reshape(shape)
+        if flip is not None:
+            v = 0.5 * (v + flip * v.T)
+        for other in factors:
+            v = (apply_s2(v) - other * v) / (target - other)
+        return v.ravel()
+
+    return project
+
+
+def _spin_square_operator(norb: int, n_alpha: int, n_beta: int):
+    """S^2 = (S+S- + S-S+)/2 + Sz^2 acting on PySCF-ordered CI arrays of the (n_alpha, n_beta) block.
+
+    S- (one electron from alpha to beta) and S+ are built once as sparse matrices from PySCF's string tables, so
+    S+S- = (S-)^T S- and S-S+ = (S+)^T S+; the same terms as PySCF's ``fci.spin_op.contract_ss``, which is
+    used instead for blocks whose two matrices would hold more than ``SPARSE_SPIN_LIMIT`` entries.
+    """
+    from pyscf import fci
+
+    entries = norb * (_binom(norb - 1, n_alpha - 1) * _binom(norb - 1, n_beta)
+                      + _binom(norb - 1, n_alpha) * _binom(norb - 1, n_beta - 1))
+    if entries > SPARSE_SPIN_LIMIT:
+        return lambda ci: fci.spin_op.contract_ss(np.ascontiguousarray(ci, dtype=float), norb, (n_alpha, n_beta))
+    moves = [m for m in (_spin_move(norb, n_alpha, n_beta, +1), _spin_move(norb, n_alpha, n_beta, -1)) if m is not None]
+    sz_squared = 0.25 * (n_alpha - n_beta) ** 2
+
+    def apply(ci: np.ndarray) -> np.ndarray:
+        flat = np.asarray(ci, dtype=float).ravel()
+        out = sz_squared * flat
+        for move in moves:
+            out = out + 0.5 * (move.T @ (move @ flat))
+        return out.reshape(np.shape(ci))
+
+    return apply
+
+
+def _spin_move(norb: int, n_alpha: int, n_beta: int, direction: int):
+    """The sparse matrix of S- (``direction`` +1: a+_{i beta} a_{i alpha}) or S+ (-1) on flat CI vectors; None if
+    the move leaves no determinant. Sign conventions are PySCF's string tables (the phase common to every
+    entry cancels in S^2)."""
+    import scipy.sparse
+    from pyscf.fci import cistring
+
+    losing, gaining = (n_alpha, n_beta) if direction > 0 else (n_beta, n_alpha)
+    if losing == 0 or gaining == norb:
+        return None
+
+    def orbital_maps(n_el: int, destroy: bool) -> list[tuple[np.ndarray, np.ndarray, np.ndarray]]:
+        """Per orbital i: the strings where a_i (or a+_i) acts, the strings it gives, and the signs."""
+        table = (cistring.gen_des_str_index if destroy else cistring.gen_cre_str_index)(range(norb), n_el)
+        flat = table.reshape(-1, 4).astype(np.int64)
+        source = np.repeat(np.arange(table.shape[0]), table.shape[1])
+        orbital = flat[:, 1] if destroy else flat[:, 0]
+        maps = []
+        for i in range(norb):
+            rows = (orbital == i) & (flat[:, 3] != 0)
+            maps.append((source[rows], flat[rows, 2], flat[rows, 3].astype(float)))
+        return maps
+
+    alpha_maps = orbital_maps(n_alpha, destroy=direction > 0)
+    beta_maps = orbital_maps(n_beta, destroy=direction < 0)
+    n_b = _binom(norb, n_beta)
+    mid = (_binom(norb, n_alpha - direction), _binom(norb, n_beta + direction))
+    rows, cols, values = [], [], []
+    for (sa, da, ga), (sb, db, gb) in zip(alpha_maps, beta_maps):
+        rows.append((da[:, None] * mid[1] + db[None, :]).ravel())
+        cols.append((sa[:, None] * n_b + sb[None, :]).ravel())
+        values.append((ga[:, None] * gb[None, :]).ravel())
+    shape = (mid[0] * mid[1], _binom(norb, n_alpha) * n_b)
+    return scipy.sparse.csr_matrix((np.concatenate(values), (np.concatenate(rows), np.concatenate(cols))), shape=shape)
 
 
 def state_energy(h1, h2, core_energy, ci, n_alpha, n_beta) -> float:

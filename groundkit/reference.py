@@ -56,7 +56,8 @@ class Reference:
     """The exact ground state in the problem's active space, N, Sz and S, plus any further states asked for."""
 
     states: tuple[ExactState, ...]
-    method: str = "exact diagonalisation in the active space (PySCF FCI solver, spin-filtered)"
+    method: str = ("exact diagonalisation in the active space, restricted to the requested total spin (whole "
+                   "determinant block, or Davidson in the spin-projected subspace; PySCF FCI kernels)")
 
     @property
     def ground(self) -> ExactState:

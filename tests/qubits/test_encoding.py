@@ -4,7 +4,7 @@ import numpy as np
 import pytest
 import scipy.sparse.linalg
 from openfermion import QubitOperator, get_sparse_operator, jordan_wigner
-from pyscf import fci
+from pyscf import fci, gto, mcscf, scf
 
 import groundkit as gk
 from groundkit.qubits import make_taper, qubitwise_commute, qwc_groups, z2_symmetries
@@ -65,9 +65,36 @@ def test_embedded_random_states_have_the_engine_energy(name, mapping, taper):
         assert np.vdot(vector, hamiltonian @ vector).real == pytest.approx(e_pyscf, abs=1e-9)
 
 
+def _pyscf_lowest_of_block(spec, n_orbitals, n_electrons):
+    """Energy (Ha) and <S^2> of the lowest state of the (N, Sz) block, from PySCF CASCI without a spin penalty."""
+    mol = gto.M(atom=list(zip(spec.symbols, spec.coordinates)), basis=spec.basis, charge=spec.charge,
+                spin=spec.multiplicity - 1, unit=spec.unit, verbose=0)
+    mf = scf.RHF(mol) if mol.spin == 0 else scf.ROHF(mol)
+    mf.conv_tol = 1e-10
+    mf.kernel()
+    assert mf.converged
+    mc = mcscf.CASCI(mf, n_orbitals, n_electrons)
+    mc.fcisolver.conv_tol = 1e-12
+    mc.verbose = 0
+    mc.kernel()
+    return mc.e_tot, mc.fcisolver.spin_square(mc.ci, n_orbitals, mc.nelecas)[0]
+
+
+# the same molecules and windows as _pipelines(), built in PySCF: (molecule, CASCI orbitals, electrons, S(S+1))
+_PYSCF_WINDOWS = {
+    "h2o(4,4)": (water, 4, 4, 0.0),
+    "nh2 frozen core": (lambda: gk.MoleculeSpec.from_xyz(NH2_XYZ, multiplicity=2), 6, 7, 0.75),
+}
+
+
+@pytest.fixture(scope="module")
+def pyscf_lowest():
+    return {name: _pyscf_lowest_of_block(make(), n, e) + (ss,) for name, (make, n, e, ss) in _PYSCF_WINDOWS.items()}
+
+
 @pytest.mark.parametrize("name", list(_pipelines()))
 @pytest.mark.parametrize("mapping, taper", MAPPINGS)
-def test_lowest_eigenvalue_in_the_sector_is_the_exact_reference(name, mapping, taper):
+def test_lowest_eigenvalue_in_the_sector_is_the_exact_reference(name, mapping, taper, pyscf_lowest):
     pipeline = _pipelines()[name].mapping(mapping, taper=taper)
     problem, encoding = pipeline.problem(), pipeline.encoding()
     index, _, inside = encoding._sector_states
@@ -75,7 +102,10 @@ def test_lowest_eigenvalue_in_the_sector_is_the_exact_reference(name, mapping, t
     block = encoding.sparse_hamiltonian()[rows][:, rows]
     lowest = (np.linalg.eigvalsh(block.toarray())[0] if block.shape[0] < 500
               else scipy.sparse.linalg.eigsh(block, k=1, which="SA")[0][0])
-    assert lowest == pytest.approx(problem.reference.energy, abs=1e-8)  # PySCF FCI solver (reference library)
+    e_casci, ss_casci, ss_wanted = pyscf_lowest[name]
+    assert ss_casci == pytest.approx(ss_wanted, abs=1e-6)  # the block's lowest state has the problem's spin (PySCF)
+    assert lowest == pytest.approx(e_casci, abs=1e-8)  # PySCF CASCI run in this test (reference library)
+    assert lowest == pytest.approx(problem.reference.energy, abs=1e-8)  # internal consistency
 
 
 def test_tapering_reports_the_kept_sector():
