@@ -58,7 +58,7 @@ def main() -> None:
     ]
     for name, pipeline in cases:
         print(row(f"{name}: UCCSD", pipeline, gk.UCCSD()))  # tapered: its symmetry-conserving excitations
-        print(row(f"{name}: PUCCD", pipeline, gk.PUCCD()))
+        print(row(f"{name}: PairDoubles", pipeline, gk.PairDoubles()))
         for layers in (1, 2, 3):
             for entangler in ("cnot", "cz"):
                 print(row(f"{name}: HardwareEfficient({layers}, {entangler})", pipeline,

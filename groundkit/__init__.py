@@ -68,7 +68,7 @@ from .minimisers import (
     MINIMISER_NAMES,
     SPSA,
     Adam,
-    GradientDescent,
+    FixedStepDescent,
     IterationRecord,
     Minimiser,
     MinimiserOutcome,
@@ -85,7 +85,7 @@ from .qubits import QubitEncoding, compare_mappings
 from .reference import ExactState, Reference
 from .result import CHEMICAL_ACCURACY, History, ReferenceRecord, Resources, RunResult
 from .studies import BondStretch, GeometryOptimum, ScanPoint, ScanResult, compare, load_scan
-from .trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, TrialState, UpCCGSD
+from .trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, TrialState, UpCCGSD
 from .widgets import explore
 
 __version__ = "0.1.0"
@@ -95,11 +95,11 @@ __all__ = [
     "BondStretch", "CHEMICAL_ACCURACY", "COBYLA", "ChargeError", "CheckpointError", "CircuitTrialState",
     "ComponentError", "ConvergenceError", "DegenerateBoundaryWarning", "ElementError", "Estimator", "ExactEstimator",
     "ExactState", "ExcitationError", "ExcitationList", "ExcitationPool", "ExecutorError", "GeneralisedPool",
-    "GeometryError", "GeometryOptimum", "GradientDescent", "GroundkitError", "GrowthStep", "HardwareEfficient",
-    "HartreeFock", "History", "IntegralConsistencyError", "IterationRecord", "LBFGSB", "MINIMISER_NAMES",
+    "GeometryError", "GeometryOptimum", "FixedStepDescent", "GroundkitError", "GrowthStep", "HardwareEfficient",
+    "ReferenceDeterminant", "History", "IntegralConsistencyError", "IterationRecord", "LBFGSB", "MINIMISER_NAMES",
     "Measurement", "Minimiser",
     "MinimiserOutcome", "MoleculeError", "MoleculeSpec", "MultiplicityError", "NOISY_QUBIT_LIMIT", "NelderMead",
-    "NoisyEstimator", "Objective", "OperatorPool", "PUCCD", "ParameterError", "PauliRotations", "PauliStringPool",
+    "NoisyEstimator", "Objective", "OperatorPool", "PairDoubles", "ParameterError", "PauliRotations", "PauliStringPool",
     "Pipeline", "Problem", "QubitEncoding", "QubitMapping", "QubitObjective", "QubitPool", "QubitTrialState",
     "Reference", "ReferenceRecord", "ResolvedActiveSpace", "Resources", "ResultFileError", "RunResult", "SPSA",
     "SampledEstimator", "ScanInputError", "ScanPoint", "ScanResult", "ScfFallbackWarning", "ScfInstabilityWarning",

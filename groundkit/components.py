@@ -45,10 +45,11 @@ def as_trial_state(value: Any, **options: Any) -> Any:
     ``strings=[...]``)."""
     from .adaptive import Adaptive
     from .qubit_states import HardwareEfficient, PauliRotations, QubitTrialState
-    from .trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, TrialState, UpCCGSD
+    from .trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, TrialState, UpCCGSD
 
-    table = {"uccsd": UCCSD, "puccd": PUCCD, "upccgsd": UpCCGSD, "k-upccgsd": UpCCGSD, "hf": HartreeFock,
-             "hartree-fock": HartreeFock, "adaptive": Adaptive, "hardware-efficient": HardwareEfficient,
+    table = {"uccsd": UCCSD, "pair-doubles": PairDoubles, "puccd": PairDoubles, "upccgsd": UpCCGSD,
+             "k-upccgsd": UpCCGSD, "reference-determinant": ReferenceDeterminant, "hf": ReferenceDeterminant,
+             "hartree-fock": ReferenceDeterminant, "adaptive": Adaptive, "hardware-efficient": HardwareEfficient,
              "excitation-list": ExcitationList, "pauli-rotations": PauliRotations}
     return _component("trial state", value, (TrialState, QubitTrialState), _from_table("trial state", table),
                       options)

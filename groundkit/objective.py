@@ -38,8 +38,8 @@ class Objective(EnergySurface):
                  plan: ExcitationPlan | None = None):
         if not isinstance(trial_state, TrialState):
             raise ComponentError(
-                f"trial state {trial_state!r} is not a fermionic TrialState; use UCCSD(), PUCCD(), UpCCGSD(k=...), "
-                f"ExcitationList([...]), HartreeFock() or a TrialState subclass"
+                f"trial state {trial_state!r} is not a fermionic TrialState; use UCCSD(), PairDoubles(), "
+                "UpCCGSD(k=...), ExcitationList([...]), ReferenceDeterminant() or a TrialState subclass"
             )
         self.problem = problem
         self.trial_state = trial_state

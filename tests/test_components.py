@@ -51,3 +51,29 @@ def test_a_study_file_refuses_a_string_for_frozen_core(tmp_path):
     path.write_text(STUDY + '[active_space]\nfrozen_core = "false"\n', encoding="utf-8")
     with pytest.raises(gk.StudyFileError, match="active_space.*frozen_core='false'"):
         read_study(path)
+
+
+@pytest.mark.parametrize("name, expected", [
+    ("puccd", gk.PairDoubles()), ("pair-doubles", gk.PairDoubles()),
+    ("hf", gk.ReferenceDeterminant()), ("hartree-fock", gk.ReferenceDeterminant()),
+    ("reference-determinant", gk.ReferenceDeterminant()),
+])
+def test_trial_state_names_from_before_and_after_the_rename(name, expected):
+    assert gk.Pipeline().trial_state(name).components["trial_state"] == expected
+
+
+@pytest.mark.parametrize("name", ["gradient-descent", "GradientDescent", "FixedStepDescent", "fixed_step_descent"])
+def test_the_fixed_step_minimiser_keeps_its_former_names(name):
+    assert gk.Pipeline().minimiser(name, step=0.3).components["minimiser"] == gk.FixedStepDescent(step=0.3)
+
+
+def test_a_result_saved_with_former_class_names_still_loads(tmp_path):
+    result = gk.Pipeline(gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.74)))).trial_state(
+        gk.PairDoubles()).minimiser(gk.FixedStepDescent(step=0.5)).run()
+    path = tmp_path / "old.json"
+    result.save(path)
+    text = path.read_text().replace("PairDoubles(", "PUCCD(").replace("FixedStepDescent(", "GradientDescent(")
+    assert "PUCCD(" in text and "GradientDescent(" in text
+    path.write_text(text)
+    loaded = gk.load_result(path)
+    assert loaded.energy == result.energy and loaded.parameters.tolist() == result.parameters.tolist()

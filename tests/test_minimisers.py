@@ -18,7 +18,7 @@ from groundkit.minimisers import (
     SPSA,
     Adam,
     Ending,
-    GradientDescent,
+    FixedStepDescent,
     IterationRecord,
     Minimiser,
     MinimiserOutcome,
@@ -73,7 +73,7 @@ def rosenbrock_and_gradient(x: np.ndarray) -> tuple[float, np.ndarray]:
 
 # Per method: settings that suit it, and how close (Hartree) it must come to an analytic minimum.
 CASES = [
-    (GradientDescent(step=0.5), 1e-9),
+    (FixedStepDescent(step=0.5), 1e-9),
     (Adam(step=0.05), 1e-9),
     (BFGS(), 1e-10),
     (LBFGSB(), 1e-10),
@@ -86,7 +86,7 @@ IDS = [type(m).__name__ for m, _ in CASES]
 
 def gentle(minimiser: Minimiser) -> Minimiser:
     """Fixed-gain methods with gains small enough for Rosenbrock's curvature (about 1000 near the start)."""
-    if isinstance(minimiser, GradientDescent):
+    if isinstance(minimiser, FixedStepDescent):
         return dataclasses.replace(minimiser, step=5e-4)
     if isinstance(minimiser, SPSA):
         return dataclasses.replace(minimiser, a=0.01)
@@ -193,7 +193,7 @@ def test_stop_reasons_name_the_test():
 
 
 def test_start_at_the_minimum_converges_without_iterations():
-    out = run(GradientDescent(), quadratic, quadratic_and_gradient, MINIMUM)
+    out = run(FixedStepDescent(), quadratic, quadratic_and_gradient, MINIMUM)
     assert out.converged and out.iterations == () and out.evaluations == 1
     assert "at the starting point" in out.stop_reason
 
@@ -271,7 +271,7 @@ def test_non_finite_energy_stops_not_converged():
     def energy(x):
         return float("nan") if x[0] > 0.2 else quadratic(x)
 
-    out = GradientDescent(step=0.5).minimise(energy, np.zeros(3), energy_and_gradient=lambda x: (
+    out = FixedStepDescent(step=0.5).minimise(energy, np.zeros(3), energy_and_gradient=lambda x: (
         energy(x), quadratic_and_gradient(x)[1]))
     assert not out.converged and "not finite" in out.stop_reason
     assert np.isfinite(out.energy)
@@ -315,9 +315,9 @@ def test_spsa_on_a_noisy_quadratic_gets_close():
 # --- construction, names, equality -----------------------------------------------------------------------------
 
 BAD_OPTIONS = [
-    (GradientDescent, {"step": -0.1}, "step=-0.1"),
-    (GradientDescent, {"step": 0}, "step=0"),
-    (GradientDescent, {"max_iterations": 0}, "max_iterations=0"),
+    (FixedStepDescent, {"step": -0.1}, "step=-0.1"),
+    (FixedStepDescent, {"step": 0}, "step=0"),
+    (FixedStepDescent, {"max_iterations": 0}, "max_iterations=0"),
     (BFGS, {"max_iterations": -5}, "max_iterations=-5"),
     (BFGS, {"max_iterations": 2.5}, "max_iterations=2.5"),
     (BFGS, {"tolerance": 0.0}, "tolerance=0.0"),
@@ -369,7 +369,7 @@ def test_names():
         assert type(minimiser_from_name(cls.name)) is cls
     assert minimiser_from_name("L-BFGS-B") == LBFGSB()
     assert minimiser_from_name("nelder_mead", initial_step=0.2) == NelderMead(initial_step=0.2)
-    assert minimiser_from_name("GradientDescent", step=0.3) == GradientDescent(step=0.3)
+    assert minimiser_from_name("FixedStepDescent", step=0.3) == FixedStepDescent(step=0.3)
     with pytest.raises(ComponentError, match="accepted names: gradient-descent, adam, bfgs, l-bfgs-b, cobyla"):
         minimiser_from_name("newton")
     with pytest.raises(ComponentError, match="unknown minimiser 3"):
@@ -384,12 +384,12 @@ def test_value_equality_repr_and_immutability():
     assert BFGS() == BFGS() and hash(BFGS()) == hash(BFGS())
     assert SPSA(seed=1) != SPSA(seed=2) and BFGS() != LBFGSB()
     assert repr(SPSA(seed=3)) == "SPSA(seed=3)"
-    assert repr(GradientDescent(step=0.4, max_iterations=50)) == "GradientDescent(max_iterations=50, step=0.4)"
+    assert repr(FixedStepDescent(step=0.4, max_iterations=50)) == "FixedStepDescent(max_iterations=50, step=0.4)"
     assert eval(repr(Adam(beta1=0.8))) == Adam(beta1=0.8)
     with pytest.raises(dataclasses.FrozenInstanceError):
         BFGS().tolerance = 1.0
     with pytest.raises(TypeError):
-        GradientDescent(0.1)  # options are keyword-only
+        FixedStepDescent(0.1)  # options are keyword-only
     with pytest.raises(TypeError):
         Minimiser()  # abstract
 

@@ -8,7 +8,7 @@ import groundkit.objective as objective_module
 from groundkit.errors import ComponentError, ParameterError, SizeLimitError
 from groundkit.objective import Objective
 from groundkit.sector.space import Sector
-from groundkit.trial_states import UCCSD, ExcitationList, HartreeFock, UpCCGSD
+from groundkit.trial_states import UCCSD, ExcitationList, ReferenceDeterminant, UpCCGSD
 from tests.outside_references import pyscf_exact, water
 from tests.sector.engine_problems import problem
 
@@ -94,7 +94,7 @@ def test_amplitudes_are_labelled_sorted_and_interleaved():
     ia, ib = sector.index(0b011111, 0b000111)
     assert amplitudes["222aa0"] == pytest.approx(signed[ia, ib], abs=1e-15)
     assert amplitudes["222aa0"] == pytest.approx(objective.amplitudes(theta)["222aa0"])
-    hf = Objective(p, HartreeFock()).amplitudes([])
+    hf = Objective(p, ReferenceDeterminant()).amplitudes([])
     assert list(hf) == ["222aa0"] and abs(hf["222aa0"]) == 1.0
 
 
@@ -153,7 +153,7 @@ def test_groundkit_problem_drives_the_engine(h2o):
     outside = pyscf_exact(water())  # PySCF RHF and full CI of the test's own water molecule (reference library)
     p = gk.build_problem(h2o)
     objective = Objective(p, UCCSD(init="mp2"))
-    hf_energy = Objective(p, HartreeFock()).energy([])
+    hf_energy = Objective(p, ReferenceDeterminant()).energy([])
     assert abs(hf_energy - outside.hf) < 1e-9  # PySCF (reference library) RHF e_tot
     assert abs(hf_energy - p.scf_energy) < 1e-9  # internal consistency
     result = scipy.optimize.minimize(objective.energy_and_gradient, objective.initial_parameters(), jac=True,

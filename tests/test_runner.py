@@ -28,7 +28,7 @@ def stretched_h2():
 
 @pytest.mark.parametrize("minimiser", [
     gk.BFGS(), gk.LBFGSB(), gk.COBYLA(initial_step=0.2, tolerance=1e-5, max_iterations=3000),
-    gk.NelderMead(max_iterations=4000), gk.GradientDescent(step=0.3), gk.Adam(step=0.05, max_iterations=2000),
+    gk.NelderMead(max_iterations=4000), gk.FixedStepDescent(step=0.3), gk.Adam(step=0.05, max_iterations=2000),
     gk.SPSA(seed=3, max_iterations=1500),
 ])
 def test_every_minimiser_reaches_the_exact_reference(stretched_h2, minimiser):
@@ -61,7 +61,7 @@ def test_interrupt_from_callback_returns_partial_result(lih_small):
         if len(seen) == 2:
             raise KeyboardInterrupt
 
-    result = lih_small.minimiser(gk.GradientDescent(step=0.1, max_iterations=500)).run(callback=stop_after_two)
+    result = lih_small.minimiser(gk.FixedStepDescent(step=0.1, max_iterations=500)).run(callback=stop_after_two)
     assert not result.converged
     assert "interrupt" in result.stop_reason.lower()
     assert len(result.history) >= 1
@@ -79,9 +79,9 @@ def test_chaining_never_mutates(lih_small):
     p = lih_small
     q = p.mapping("parity")
     assert p.components["mapping"] is None and q.components["mapping"] == gk.QubitMapping("parity")
-    r = q.trial_state(gk.PUCCD()).minimiser("cobyla")
+    r = q.trial_state(gk.PairDoubles()).minimiser("cobyla")
     assert q.components["trial_state"] is None and r.components["minimiser"] == gk.COBYLA()
-    assert "PUCCD" in repr(r) and "parity" in repr(r)
+    assert "PairDoubles" in repr(r) and "parity" in repr(r)
 
 
 def test_swapping_downstream_components_reuses_the_chemistry(lih_small):
@@ -89,7 +89,7 @@ def test_swapping_downstream_components_reuses_the_chemistry(lih_small):
     b = lih_small.minimiser(gk.COBYLA()).mapping("bravyi-kitaev")
     assert a.problem() is b.problem()
     assert a.objective() is b.objective()
-    assert lih_small.trial_state(gk.PUCCD()).problem() is a.problem()
+    assert lih_small.trial_state(gk.PairDoubles()).problem() is a.problem()
 
 
 def test_hartree_fock_trial_state_has_nothing_to_minimise(lih_small):
@@ -110,7 +110,7 @@ def test_unknown_component_names_list_the_accepted_ones(lih_small):
         lih_small.estimator("psychic")
 
 
-@pytest.mark.parametrize("make", [lambda: gk.GradientDescent(step=-0.1), lambda: gk.BFGS(max_iterations=0),
+@pytest.mark.parametrize("make", [lambda: gk.FixedStepDescent(step=-0.1), lambda: gk.BFGS(max_iterations=0),
                                   lambda: gk.Adam(step=0.0), lambda: gk.COBYLA(max_iterations=-3)])
 def test_options_out_of_range_are_refused_at_construction(make):
     with pytest.raises(gk.ComponentError):

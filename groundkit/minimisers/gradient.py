@@ -25,7 +25,7 @@ def budget_spent(max_iterations: int, gradient_norm: float | None = None) -> str
 
 
 @minimiser_options
-class GradientDescent(Minimiser):
+class FixedStepDescent(Minimiser):
     """theta <- theta - step * gradient, with a fixed ``step`` (radians squared per Hartree).
 
     One energy-and-gradient evaluation per iteration. ``difference_step`` (radians) enables central
@@ -41,7 +41,7 @@ class GradientDescent(Minimiser):
     difference_step: float | None = None
 
     def check_options(self) -> None:
-        check_positive("GradientDescent", "step", self.step, "radians squared per Hartree")
+        check_positive("FixedStepDescent", "step", self.step, "radians squared per Hartree")
 
     def search(self, session: Session, x0: np.ndarray) -> Ending:
         return _descend(self, session, x0, lambda gradient, k: self.step * gradient)

@@ -2,16 +2,16 @@
 
 from groundkit.trial_states.base import ExcitationPlan, TrialState, excitation_label
 from groundkit.trial_states.custom import ExcitationList
-from groundkit.trial_states.hartree_fock import HartreeFock
-from groundkit.trial_states.paired import PUCCD, UpCCGSD
+from groundkit.trial_states.paired import PairDoubles, UpCCGSD
+from groundkit.trial_states.reference_determinant import ReferenceDeterminant
 from groundkit.trial_states.uccsd import UCCSD
 
 __all__ = [
-    "PUCCD",
+    "PairDoubles",
     "UCCSD",
     "ExcitationList",
     "ExcitationPlan",
-    "HartreeFock",
+    "ReferenceDeterminant",
     "TrialState",
     "UpCCGSD",
     "excitation_label",

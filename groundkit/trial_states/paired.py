@@ -1,4 +1,5 @@
-"""Seniority-zero pair doubles (PUCCD) and k layers of generalised pair doubles and singles (k-UpCCGSD)."""
+"""Seniority-zero pair doubles (pUCCD in the literature) and k layers of generalised pair doubles and singles
+(k-UpCCGSD)."""
 
 from __future__ import annotations
 
@@ -18,7 +19,7 @@ from groundkit.trial_states.options import check_positive_int
 
 
 @dataclass(frozen=True)
-class PUCCD(TrialState):
+class PairDoubles(TrialState):
     """Pair doubles only: each moves both electrons of a doubly occupied orbital i into an empty orbital a.
 
     Order: i ascending, then a ascending (spatial orbitals); one parameter per pair move.

@@ -19,17 +19,17 @@ _WIDE = {"description_width": "120px"}
 
 
 def _trial_states() -> list[tuple[str, Any]]:
-    from ..trial_states import PUCCD, UCCSD, HartreeFock, UpCCGSD
+    from ..trial_states import UCCSD, PairDoubles, ReferenceDeterminant, UpCCGSD
 
-    return [("UCCSD", UCCSD()), ("pair UCCD (PUCCD)", PUCCD()), ("k-UpCCGSD, k=1", UpCCGSD(k=1)),
-            ("k-UpCCGSD, k=2", UpCCGSD(k=2)), ("Hartree–Fock only", HartreeFock())]
+    return [("UCCSD", UCCSD()), ("pair doubles (pUCCD)", PairDoubles()), ("k-UpCCGSD, k=1", UpCCGSD(k=1)),
+            ("k-UpCCGSD, k=2", UpCCGSD(k=2)), ("Hartree–Fock only", ReferenceDeterminant())]
 
 
 def _minimisers() -> list[tuple[str, Any]]:
-    from ..minimisers import BFGS, COBYLA, LBFGSB, SPSA, Adam, GradientDescent, NelderMead
+    from ..minimisers import BFGS, COBYLA, LBFGSB, SPSA, Adam, FixedStepDescent, NelderMead
 
     return [("BFGS", BFGS()), ("L-BFGS-B", LBFGSB()), ("COBYLA", COBYLA()), ("Nelder–Mead", NelderMead()),
-            ("SPSA (seed 3)", SPSA(seed=3)), ("Adam", Adam()), ("gradient descent", GradientDescent())]
+            ("SPSA (seed 3)", SPSA(seed=3)), ("Adam", Adam()), ("gradient descent", FixedStepDescent())]
 
 
 def _with_own(options: list[tuple[str, Any]], own: Any) -> list[tuple[str, Any]]:

@@ -59,7 +59,7 @@ def test_default_angles_are_the_initial_parameters():
 
 
 def test_hartree_fock_circuit_is_the_reference_bits():
-    pipeline = gk.Pipeline(H2).mapping(gk.QubitMapping("parity", taper=True)).trial_state(gk.HartreeFock())
+    pipeline = gk.Pipeline(H2).mapping(gk.QubitMapping("parity", taper=True)).trial_state(gk.ReferenceDeterminant())
     bits = pipeline.encoding().reference_bits
     ops = list(pipeline.circuit().all_operations())
     assert {op.qubits[0].x for op in ops if op.gate == cirq.X} == {q for q, b in enumerate(bits) if b}

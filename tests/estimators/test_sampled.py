@@ -95,7 +95,7 @@ def test_compare_measurements_table(setting):
 def test_minimising_with_sampled_energies():
     pipeline = diatomic("H", "H", 0.7414).pipeline()  # NIST CCCBDB r_e (from memory)
     exact = outside.pyscf_exact(outside.diatomic("H", "H", 0.7414))  # PySCF RHF and FCI (reference library)
-    for minimiser in (gk.SPSA(seed=4, max_iterations=300), gk.GradientDescent(step=0.5, max_iterations=40)):
+    for minimiser in (gk.SPSA(seed=4, max_iterations=300), gk.FixedStepDescent(step=0.5, max_iterations=40)):
         result = pipeline.estimator(SampledEstimator(shots=40_000, seed=2)).minimiser(minimiser).run()
         assert result.standard_error > 0
         assert abs(result.exact_energy - exact.exact) < 1.6e-3  # PySCF FCI; 20.6 mHa of correlation to recover

@@ -58,7 +58,7 @@ def test_missing_points_are_computed_and_the_chain_is_warm_started_as_before(tmp
 def test_a_checkpoint_of_another_configuration_is_refused(tmp_path):
     gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, VALUES[:2], checkpoint=str(tmp_path))
     with pytest.raises(CheckpointError, match="another scan configuration.*trial_state"):
-        gk.Pipeline().trial_state(gk.PUCCD()).scan(h2, VALUES[:2], checkpoint=str(tmp_path))
+        gk.Pipeline().trial_state(gk.PairDoubles()).scan(h2, VALUES[:2], checkpoint=str(tmp_path))
     with pytest.raises(CheckpointError, match="scan points"):
         gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, VALUES[:3], checkpoint=str(tmp_path))
     with pytest.raises(CheckpointError, match="warm_start"):

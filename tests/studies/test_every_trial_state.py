@@ -78,7 +78,7 @@ def _circuit() -> cirq.Circuit:
 
 KINDS = {
     "uccsd": gk.UCCSD(),
-    "pair-doubles": gk.PUCCD(),
+    "pair-doubles": gk.PairDoubles(),
     "k-upccgsd": gk.UpCCGSD(k=1),
     "excitation-list": gk.ExcitationList([((2, 3), (1, 0)), ((2,), (0,))]),
     "hardware-efficient": gk.HardwareEfficient(layers=1),

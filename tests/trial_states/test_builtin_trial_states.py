@@ -3,7 +3,7 @@ import pytest
 
 from groundkit.errors import ComponentError, ExcitationError
 from groundkit.sector.excitation import Excitation
-from groundkit.trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, TrialState, UpCCGSD
+from groundkit.trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, TrialState, UpCCGSD
 
 
 def uccsd_count(o_a, v_a, o_b, v_b):
@@ -59,7 +59,7 @@ def test_spin_adapted_needs_a_closed_shell(get_problem):
 
 @pytest.mark.parametrize("name, n_pairs", [("h2o", 10), ("lih", 8), ("nh", 3), ("oh", 4)])
 def test_puccd_moves_pairs_only(get_problem, name, n_pairs):
-    plan = PUCCD().plan(get_problem(name))
+    plan = PairDoubles().plan(get_problem(name))
     assert plan.n_parameters == n_pairs
     for e in plan.excitations:
         assert e.creators[0] // 2 == e.creators[1] // 2 and e.annihilators[0] // 2 == e.annihilators[1] // 2
@@ -78,7 +78,7 @@ def test_upccgsd_layers(get_problem, k):
 
 
 def test_hartree_fock_has_no_parameters(get_problem):
-    plan = HartreeFock().plan(get_problem("lih"))
+    plan = ReferenceDeterminant().plan(get_problem("lih"))
     assert plan.n_parameters == 0 and plan.excitations == ()
     assert plan.reference == (0b11, 0b11)
 
@@ -86,13 +86,13 @@ def test_hartree_fock_has_no_parameters(get_problem):
 def test_repr_and_value_equality():
     assert repr(UCCSD()) == "UCCSD(spin_adapted=False, init='zeros')"
     assert repr(UpCCGSD(k=2)) == "UpCCGSD(k=2)"
-    assert repr(PUCCD()) == "PUCCD()" and repr(HartreeFock()) == "HartreeFock()"
+    assert repr(PairDoubles()) == "PairDoubles()" and repr(ReferenceDeterminant()) == "ReferenceDeterminant()"
     assert repr(ExcitationList([((2,), (0,)), ((4, 5), (1, 0))])) == "ExcitationList([((2,), (0,)), ((4, 5), (1, 0))])"
     assert UCCSD(init="mp2") == UCCSD(init="mp2") != UCCSD()
     assert UpCCGSD(k=2) == UpCCGSD(k=2) != UpCCGSD(k=1)
     assert ExcitationList([((2,), (0,))]) == ExcitationList([[[2], [0]]])
-    assert len({UCCSD(), UCCSD(), PUCCD(), HartreeFock(), ExcitationList([((2,), (0,))])}) == 4
-    assert PUCCD() != HartreeFock()
+    assert len({UCCSD(), UCCSD(), PairDoubles(), ReferenceDeterminant(), ExcitationList([((2,), (0,))])}) == 4
+    assert PairDoubles() != ReferenceDeterminant()
 
 
 @pytest.mark.parametrize(

@@ -8,14 +8,14 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from groundkit.objective import Objective
-from groundkit.trial_states import PUCCD, UCCSD, ExcitationList, HartreeFock, UpCCGSD
+from groundkit.trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, UpCCGSD
 
 MOLECULES = ["h2", "lih", "h4", "h2o_cas44", "nh", "oh"]
 TRIAL_STATES = [
-    HartreeFock(),
+    ReferenceDeterminant(),
     UCCSD(),
     UCCSD(spin_adapted=True),
-    PUCCD(),
+    PairDoubles(),
     UpCCGSD(k=1),
     UpCCGSD(k=2),
     ExcitationList([((2,), (0,)), ((3, 2), (1, 0)), ((3,), (1,)), ((2,), (0,))]),

@@ -21,13 +21,13 @@ def test_table_gains_a_row_per_run(lih_pipeline):
     explorer.mapping.value = "parity"
     explorer.taper.value = True
     click(explorer)
-    explorer.trial_state.value = dict(explorer.trial_state.options)["pair UCCD (PUCCD)"]
+    explorer.trial_state.value = dict(explorer.trial_state.options)["pair doubles (pUCCD)"]
     explorer.minimiser.value = dict(explorer.minimiser.options)["COBYLA"]
     click(explorer)
     assert [row["run"] for row in explorer.rows] == [1, 2, 3]
     assert explorer.rows[1]["mapping"] == "parity (tapered)"
     assert explorer.rows[1]["qubits"] < explorer.rows[0]["qubits"]
-    assert explorer.rows[2]["trial_state"] == "pair UCCD (PUCCD)" and explorer.rows[2]["minimiser"] == "COBYLA"
+    assert explorer.rows[2]["trial_state"] == "pair doubles (pUCCD)" and explorer.rows[2]["minimiser"] == "COBYLA"
     assert explorer.table_area.value.count("<tr>") == 4  # header and three runs
     assert list(explorer.table["run"]) == [1, 2, 3]
     latest = explorer.view_area.children[0]

@@ -10,7 +10,7 @@ from groundkit.trial_states.base import TrialState
 
 
 @dataclass(frozen=True)
-class HartreeFock(TrialState):
+class ReferenceDeterminant(TrialState):
     """The Hartree-Fock determinant (lowest n_alpha alpha and n_beta beta orbitals); zero parameters."""
 
     def excitations(self, problem: Any) -> list[Excitation]:
