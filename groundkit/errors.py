@@ -91,10 +91,11 @@ class ExecutorError(GroundkitError):
     """An executor that is neither None, 'serial', 'processes', a concurrent.futures Executor nor a Dask Client."""
 
 
-class IntegralConsistencyError(GroundkitError):
+class IntegralConsistencyError(RuntimeError):
     """Internal fault: the Hartree–Fock determinant's energy from the active-space integrals is not the SCF energy.
 
     Never caused by input; it means the orbital order or the integral transformation is wrong. Please report it.
+    Deliberately not a :class:`GroundkitError` (bad input): studies raise it instead of recording a failed row.
     """
 
 
