@@ -89,3 +89,19 @@ class StudyFileError(GroundkitError):
 
 class ExecutorError(GroundkitError):
     """An executor that is neither None, 'serial', 'processes', a concurrent.futures Executor nor a Dask Client."""
+
+
+class CheckpointBusyError(CheckpointError):
+    """A checkpoint directory locked by another running scan; the message names the holder (pid, host, since)."""
+
+
+class OutputExistsError(StudyFileError):
+    """A study's output directory that already holds results, run without ``--resume`` or ``--overwrite``."""
+
+
+class CheckpointWarning(UserWarning):
+    """A checkpoint point file that failed a check (checksum, value, molecule); it is set aside and recomputed."""
+
+
+class ExcludedPointsWarning(UserWarning):
+    """Scan points left out of a curve fit because their minimisation did not converge."""
