@@ -247,7 +247,8 @@ def _record_holder(fd: int) -> None:
     since = datetime.datetime.now(datetime.UTC).isoformat(timespec="seconds")
     text = json.dumps({"pid": os.getpid(), "host": socket.gethostname(), "since": since}).encode("utf-8")
     os.ftruncate(fd, 0)
-    os.pwrite(fd, text, 0)
+    os.lseek(fd, 0, os.SEEK_SET)
+    os.write(fd, text)
     os.fsync(fd)
 
 
