@@ -109,3 +109,19 @@ class ScfFallbackWarning(ScfWarning):
 
 class ScfInstabilityWarning(ScfWarning):
     """PySCF's stability analysis found a lower-energy solution (internal, or RHF→UHF for closed shells)."""
+
+
+class CheckpointBusyError(CheckpointError):
+    """A checkpoint directory locked by another running scan; the message names the holder (pid, host, since)."""
+
+
+class OutputExistsError(StudyFileError):
+    """A study's output directory that already holds results, run without ``--resume`` or ``--overwrite``."""
+
+
+class CheckpointWarning(UserWarning):
+    """A checkpoint point file that failed a check (checksum, value, molecule); it is set aside and recomputed."""
+
+
+class ExcludedPointsWarning(UserWarning):
+    """Scan points left out of a curve fit because their minimisation did not converge."""

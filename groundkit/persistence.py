@@ -51,11 +51,14 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
 
 def write_json_atomic(data: Any, path: str | os.PathLike) -> None:
     """Write ``data`` as JSON via a temporary file in the same folder, flushed to disk, then renamed over
-    ``path``: a crash never leaves half a file under the final name."""
+    ``path``: a crash never leaves half a file under the final name. The file gets the mode an ordinary
+    ``open`` would give it (0o666 less the process umask), not the private 0o600 of a temporary file."""
     text = json.dumps(data, indent=1, allow_nan=False, default=_jsonable)
     folder = os.path.dirname(os.path.abspath(path))
     fd, tmp = tempfile.mkstemp(prefix=".groundkit-", suffix=".tmp", dir=folder)
     try:
+        if hasattr(os, "fchmod"):
+            os.fchmod(fd, 0o666 & ~process_umask())
         with os.fdopen(fd, "w", encoding="utf-8") as fh:
             fh.write(text)
             fh.flush()
@@ -65,6 +68,21 @@ def write_json_atomic(data: Any, path: str | os.PathLike) -> None:
         if os.path.exists(tmp):
             os.unlink(tmp)
         raise
+
+
+def process_umask() -> int:
+    """This process's file-creation mask, read without changing it where Linux reports it (``/proc``); elsewhere
+    set and restored at once."""
+    try:
+        with open("/proc/self/status", encoding="ascii") as fh:
+            for line in fh:
+                if line.startswith("Umask:"):
+                    return int(line.split()[1], 8)
+    except (OSError, ValueError, IndexError):
+        pass
+    mask = os.umask(0o022)
+    os.umask(mask)
+    return mask
 
 
 def read_json(path: str | os.PathLike, expected: str) -> Any:

@@ -223,19 +223,21 @@ class Pipeline:
 
     def scan(
         self, geometry: Callable[[float], MoleculeSpec], values: Any, *, checkpoint: str | None = None,
-        executor: Any = None, warm_start: bool | int = True, progress: bool = False,
+        executor: Any = None, warm_start: bool | int = True, progress: bool = False, retry_failed: bool = False,
     ) -> Any:
         """Run this pipeline at ``geometry(v)`` for each value; returns a :class:`~groundkit.studies.ScanResult`.
 
         ``warm_start``: True (one chain, each point starts from the previous one's parameters after orbital
         matching), an integer of parallel chains, or False. ``checkpoint``: a directory, one file per finished
-        point; rerunning skips them. ``executor``: None, 'processes', a concurrent.futures Executor or a
-        ``distributed.Client``. See docs/studies.md.
+        point, locked while the scan runs; rerunning skips the finished points (``retry_failed=True`` computes the
+        failed ones again). ``executor``: None, 'processes', a concurrent.futures Executor or a
+        ``distributed.Client``. Ctrl-C stops the scan (KeyboardInterrupt); the point in progress is not stored.
+        See docs/studies.md.
         """
         from .studies.scan import run_scan
 
         return run_scan(self, geometry, values, checkpoint=checkpoint, executor=executor, warm_start=warm_start,
-                        progress=progress)
+                        progress=progress, retry_failed=retry_failed)
 
     def optimise_geometry(
         self, geometry: Callable[..., MoleculeSpec], initial: Any, *, bounds: Any = None,

@@ -6,11 +6,14 @@ CODATA values from ``scipy.constants``.
 
 from __future__ import annotations
 
+import warnings
 from typing import Any
 
 import numpy as np
 from scipy import constants
 from scipy.interpolate import CubicSpline
+
+from groundkit.errors import ExcludedPointsWarning
 
 from .errors import AnalysisError
 
@@ -19,6 +22,26 @@ MIN_SPLINE_POINTS = 4
 HARTREE_J = constants.physical_constants["Hartree energy"][0]  # J (CODATA, via SciPy)
 ATOMIC_MASS_KG = constants.physical_constants["atomic mass constant"][0]  # kg per u (CODATA, via SciPy)
 ANGSTROM_M = constants.angstrom  # m
+
+
+def fit_mask(scan: Any, column: str = "energy", include_unconverged: bool = False) -> np.ndarray:
+    """Which points of ``scan`` a fit of ``column`` uses: the points with a result, and for the trial state's
+    ``"energy"`` only those whose minimisation converged (unless ``include_unconverged``). Leaving points out
+    warns (``ExcludedPointsWarning``) with their values; a baseline column uses every point with a result."""
+    if not isinstance(include_unconverged, bool):
+        raise AnalysisError(f"include_unconverged={include_unconverged!r}; accepted: True or False")
+    ok = np.array([p.ok for p in scan.points], dtype=bool)
+    if column != "energy" or include_unconverged:
+        return ok
+    converged = np.array([p.ok and bool(p.result.converged) for p in scan.points], dtype=bool)
+    left_out = [p.value for p, c, o in zip(scan.points, converged, ok) if o and not c]
+    if left_out:
+        warnings.warn(
+            f"{len(left_out)} point(s) whose minimisation did not converge left out of the {column} fit: values "
+            f"{', '.join(f'{v:g}' for v in left_out)}; pass include_unconverged=True to use them",
+            ExcludedPointsWarning, stacklevel=3,
+        )
+    return converged
 
 
 def curve_spline(x: np.ndarray, y: np.ndarray, what: str = "energy") -> CubicSpline:
@@ -73,11 +96,14 @@ def harmonic_wavenumber(curvature: float, masses: tuple[float, float]) -> float:
     return float(omega / (2 * np.pi * constants.c) / 100.0)  # cm^-1
 
 
-def diatomic_wavenumber(scan: Any, masses: tuple[float, float] | None = None, column: str = "energy") -> float:
-    """Harmonic wavenumber (cm^-1) of a diatomic scan, the bond length taken from each point's molecule."""
+def diatomic_wavenumber(scan: Any, masses: tuple[float, float] | None = None, column: str = "energy",
+                        include_unconverged: bool = False) -> float:
+    """Harmonic wavenumber (cm^-1) of a diatomic scan, the bond length taken from each point's molecule; the
+    points used are those of :func:`fit_mask`."""
     from groundkit.chemistry import most_abundant_isotope_mass
 
-    points = [p for p in scan.points if p.ok]
+    keep = fit_mask(scan, column, include_unconverged)
+    points = [p for p, k in zip(scan.points, keep) if k]
     symbols = {p.molecule.symbols for p in points}
     if len(symbols) != 1 or len(next(iter(symbols), ())) != 2:
         found = sorted("".join(s) for s in symbols)
@@ -87,8 +113,7 @@ def diatomic_wavenumber(scan: Any, masses: tuple[float, float] | None = None, co
         masses = (most_abundant_isotope_mass(a), most_abundant_isotope_mass(b))
     elif len(tuple(masses)) != 2:
         raise AnalysisError(f"masses {masses!r}: give two masses in u, one per atom ({a}, {b})")
-    ok = np.array([p.ok for p in scan.points])
-    energies = scan.table[column].to_numpy(dtype=float)[ok]
+    energies = scan.table[column].to_numpy(dtype=float)[keep]
     lengths = np.array([p.molecule.distance(0, 1) for p in points])
     _, _, curvature = _minimum(curve_spline(lengths, energies, column), column)
     return harmonic_wavenumber(curvature, tuple(masses))

@@ -4,6 +4,11 @@
 :data:`MAX_LOCAL_WORKERS`, created and shut down here), any ``concurrent.futures.Executor`` the caller owns, or a
 ``distributed.Client``. Tasks are plain data, answers are plain dicts; the order in which answers arrive never
 changes what a study records, because each answer is filed under its own point.
+
+Workers of the ``"processes"`` pool exit when their parent dies (even by SIGKILL): each starts a watchdog thread
+(:func:`exit_with_parent`) that waits on the parent's sentinel and checks the parent's process id every
+:data:`WATCH_INTERVAL` seconds, then ends the worker with ``os._exit``. Once they are gone, multiprocessing's
+resource tracker sees its pipe close and exits too.
 """
 
 from __future__ import annotations
@@ -11,6 +16,7 @@ from __future__ import annotations
 import concurrent.futures as cf
 import multiprocessing
 import os
+import threading
 from collections.abc import Callable, Iterator, Sequence
 from contextlib import contextmanager
 from typing import Any
@@ -18,6 +24,31 @@ from typing import Any
 from .errors import ExecutorError
 
 MAX_LOCAL_WORKERS = 2  # this project's machines have 2 cores
+WATCH_INTERVAL = 0.5  # s between two looks of a worker's watchdog at its parent
+ORPHAN_EXIT_STATUS = 70  # a worker's exit status once its parent has gone
+
+
+def exit_with_parent(parent_pid: int, interval: float = WATCH_INTERVAL) -> None:
+    """Start a daemon thread that ends this process (``os._exit``) once the process ``parent_pid`` is gone.
+
+    Portable: it waits on ``multiprocessing.parent_process().sentinel`` (ready when the parent dies, on every
+    platform) and, where there is no sentinel, notices that ``os.getppid()`` changed (POSIX re-parents orphans)."""
+    parent = multiprocessing.parent_process()
+    sentinel = None if parent is None else parent.sentinel
+
+    def watch() -> None:
+        from multiprocessing.connection import wait
+
+        while True:
+            if sentinel is not None:
+                if wait([sentinel], timeout=interval):
+                    os._exit(ORPHAN_EXIT_STATUS)
+            else:
+                threading.Event().wait(interval)
+            if os.getppid() != parent_pid:
+                os._exit(ORPHAN_EXIT_STATUS)
+
+    threading.Thread(target=watch, name="groundkit-parent-watch", daemon=True).start()
 
 
 class SerialRunner:
@@ -91,7 +122,8 @@ def runner_for(executor: Any) -> Iterator[Any]:
         yield SerialRunner()
     elif executor == "processes":
         workers = max(1, min(MAX_LOCAL_WORKERS, os.cpu_count() or 1))
-        pool = cf.ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("spawn"))
+        pool = cf.ProcessPoolExecutor(max_workers=workers, mp_context=multiprocessing.get_context("spawn"),
+                                      initializer=exit_with_parent, initargs=(os.getpid(),))
         try:
             yield FuturesRunner(pool, workers)
         finally:

@@ -14,6 +14,7 @@ from __future__ import annotations
 import math
 import numbers
 from collections.abc import Callable, Iterable
+from contextlib import ExitStack
 from typing import Any
 
 from groundkit.molecule import MoleculeSpec
@@ -94,8 +95,16 @@ def run_scan(
     executor: Any = None,
     warm_start: bool | int = True,
     progress: bool = False,
+    retry_failed: bool = False,
 ) -> ScanResult:
-    """Run ``pipeline`` at ``geometry(v)`` for every ``v`` in ``values``; see :meth:`Pipeline.scan`."""
+    """Run ``pipeline`` at ``geometry(v)`` for every ``v`` in ``values``; see :meth:`Pipeline.scan`.
+
+    With a ``checkpoint`` directory the scan holds its lock while it runs, skips the points already there and
+    computes the others, each warm-started exactly as in an uninterrupted run. ``retry_failed`` also computes the
+    stored failed points again (their failures are kept in ``ScanPoint.earlier_failures``). Ctrl-C stops the scan
+    with a KeyboardInterrupt; the point being computed is not stored, every finished one is."""
+    if not isinstance(retry_failed, bool):
+        raise ScanInputError(f"retry_failed={retry_failed!r}; accepted: True or False")
     numbers_ = scan_values(values)
     chains = chains_for(len(numbers_), warm_start)
     built = build_molecules(geometry, numbers_)
@@ -106,56 +115,78 @@ def run_scan(
     description = {**configuration, "warm_start": label,
                    "points": [[v, molecule_to_dict(m) if m is not None else failure]
                               for v, (m, failure) in zip(numbers_, built)]}
-    store = CheckpointStore(checkpoint, description) if checkpoint is not None else None
-    points: dict[int, ScanPoint] = store.finished() if store is not None else {}
-    bar = _progress(len(numbers_), len(points)) if progress else None
-
-    def make_task(index: int, previous: dict | None) -> Task:
-        molecule, failure = built[index]
-        handover = None
-        if previous is None:
-            previous = starts.get(index)
-        if warm_start is not False and previous is not None and previous.get("handover") is not None:
-            handover = (previous["molecule"], previous["handover"])
-        return Task(molecule=molecule, components=components, previous=handover, builder_error=failure or None)
-
-    def on_answer(index: int, answer: dict) -> None:
-        point = _point(index, numbers_[index], built[index][0], answer)
-        if store is not None:
-            store.write(point)
-        points[index] = point
+    with ExitStack() as stack:
+        store = None
+        if checkpoint is not None:
+            store = stack.enter_context(CheckpointStore(checkpoint, description, retry_failed=retry_failed))
+        points: dict[int, ScanPoint] = store.finished() if store is not None else {}
+        earlier = store.earlier_failures if store is not None else {}
+        todo, starts = resume_plan(chains, points, warm_start)
+        bar = _progress(len(numbers_), len(points)) if progress else None
         if bar is not None:
-            bar.update(1)
+            stack.callback(bar.close)
 
-    # resume: each chain restarts after its last finished point, warm-started from it as before
-    todo: list[list[int]] = []
-    starts: dict[int, dict] = {}
-    for chain in chains:
-        left = [i for i in chain if i not in points]
-        if left:
-            first = left[0]
-            before = chain.index(first) - 1
-            if before >= 0 and points[chain[before]].ok and warm_start is not False:
-                starts[first] = _answer_of(points[chain[before]])
-            todo.append(left)
-    try:
+        def make_task(index: int, previous: dict | None) -> Task:
+            molecule, failure = built[index]
+            handover = None
+            if previous is None:
+                previous = starts.get(index)
+            if warm_start is not False and previous is not None and previous.get("handover") is not None:
+                handover = (previous["molecule"], previous["handover"])
+            return Task(molecule=molecule, components=components, previous=handover, builder_error=failure or None)
+
+        def on_answer(index: int, answer: dict) -> None:
+            point = _point(index, numbers_[index], built[index][0], answer, earlier.get(index, ()))
+            if store is not None:
+                store.write(point)
+            points[index] = point
+            if bar is not None:
+                bar.update(1)
+
         if todo:
             with runner_for(executor) as runner:
                 run_chains(runner, todo, make_task, on_answer, run_task)
-    finally:
-        if bar is not None:
-            bar.close()
     return ScanResult(points=tuple(points[i] for i in range(len(numbers_))), configuration=configuration,
                       warm_start=label)
 
 
-def _point(index: int, value: float, molecule: MoleculeSpec | None, answer: dict) -> ScanPoint:
+def resume_plan(chains: list[list[int]], finished: dict[int, ScanPoint], warm_start: bool | int,
+                ) -> tuple[list[list[int]], dict[int, dict]]:
+    """The runs of missing points to compute, and the warm start of each run's first point.
+
+    A chain with gaps (say points 3 and 6-11 missing) becomes one run per gap ([3], [6, ..., 11]); the first
+    point of a run starts from its predecessor in the chain (2 and 5 here), which is finished. So every point
+    starts from the same neighbour as in an uninterrupted scan, and the resumed table equals that scan's. A failed
+    predecessor hands nothing over: the point starts cold, as it would have."""
+    runs: list[list[int]] = []
+    starts: dict[int, dict] = {}
+    for chain in chains:
+        run: list[int] = []
+        for position, index in enumerate(chain):
+            if index in finished:
+                if run:
+                    runs.append(run)
+                    run = []
+                continue
+            if not run and position > 0 and warm_start is not False:
+                before = finished[chain[position - 1]]
+                if before.ok:
+                    starts[index] = _answer_of(before)
+            run.append(index)
+        if run:
+            runs.append(run)
+    return runs, starts
+
+
+def _point(index: int, value: float, molecule: MoleculeSpec | None, answer: dict,
+           earlier_failures: tuple[str, ...] = ()) -> ScanPoint:
     result = answer.get("result")
     return ScanPoint(
         index=index, value=value, molecule=molecule,
         result=None if result is None else result_from_dict(result, source=f"scan point {index}"),
         failure=answer.get("error"), start=answer.get("start", "cold"), orbital_match=answer.get("orbital_match"),
         wall_time=float(answer.get("wall_time", 0.0)), handover=answer.get("handover"),
+        earlier_failures=tuple(earlier_failures),
     )
 
 

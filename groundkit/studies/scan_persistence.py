@@ -43,6 +43,7 @@ def point_to_dict(point: ScanPoint) -> dict[str, Any]:
         "orbital_match": point.orbital_match,
         "wall_time": float(point.wall_time),
         "handover": point.handover,
+        "earlier_failures": list(point.earlier_failures),
     }
 
 
@@ -65,6 +66,10 @@ def point_from_dict(data: Any, source: str) -> ScanPoint:
 
     molecule = get("molecule", (dict,), nullable=True)
     result = get("result", (dict,), nullable=True)
+    earlier = data.get("earlier_failures", [])  # absent in files written before retries were recorded
+    if not isinstance(earlier, list) or not all(isinstance(m, str) for m in earlier):
+        raise ResultFileError(f"{source}: scan point field 'earlier_failures' is {str(earlier)[:60]!r}; expected a "
+                              "list of failure messages")
     return ScanPoint(
         index=int(get("index", (int,))),
         value=float(get("value", (int, float))),
@@ -75,6 +80,7 @@ def point_from_dict(data: Any, source: str) -> ScanPoint:
         orbital_match=get("orbital_match", (int, float), nullable=True),
         wall_time=float(get("wall_time", (int, float))),
         handover=get("handover", (dict,), nullable=True),
+        earlier_failures=tuple(earlier),
     )
 
 

@@ -21,7 +21,8 @@ class ScanPoint:
 
     ``start`` says 'cold' or 'warm (...)' with what was carried over; ``orbital_match`` is the smallest overlap
     of matched active orbitals with the previous point (None for a cold start); ``wall_time`` in seconds;
-    ``handover`` is the plain data that warm-starts the next point.
+    ``handover`` is the plain data that warm-starts the next point; ``earlier_failures`` holds the failure
+    messages of earlier attempts at this point (oldest first) when a resume retried it (``retry_failed``).
     """
 
     index: int
@@ -33,6 +34,7 @@ class ScanPoint:
     orbital_match: float | None = None
     wall_time: float = 0.0
     handover: dict | None = field(default=None, repr=False)
+    earlier_failures: tuple[str, ...] = ()
 
     @property
     def ok(self) -> bool:
@@ -105,22 +107,29 @@ class ScanResult:
         return table
 
     # analysis -------------------------------------------------------------------------------------------------
-    def equilibrium(self, column: str = "energy") -> tuple[float, float]:
-        """(value, energy in Ha) at the minimum of a cubic spline through the successful points of ``column``."""
-        from .analysis import spline_minimum
+    def equilibrium(self, column: str = "energy", include_unconverged: bool = False) -> tuple[float, float]:
+        """(value, energy in Ha) at the minimum of a cubic spline through the successful points of ``column``.
 
+        For ``"energy"`` the points whose minimisation did not converge are left out, with an
+        ``ExcludedPointsWarning`` naming them, unless ``include_unconverged=True``."""
+        from .analysis import fit_mask, spline_minimum
+
+        keep = fit_mask(self, column, include_unconverged)
         table = self.table
-        return spline_minimum(table["value"].to_numpy(), table[column].to_numpy(dtype=float), what=column)
+        return spline_minimum(table["value"].to_numpy()[keep], table[column].to_numpy(dtype=float)[keep],
+                              what=column)
 
-    def harmonic_wavenumber(self, masses: tuple[float, float] | None = None, column: str = "energy") -> float:
+    def harmonic_wavenumber(self, masses: tuple[float, float] | None = None, column: str = "energy",
+                            include_unconverged: bool = False) -> float:
         """Harmonic wavenumber (cm^-1) of a diatomic bond scan from the spline's curvature at its minimum.
 
         ``masses`` are the two atoms' masses in u (default: the most abundant isotopes). The bond length is
-        taken from each point's molecule (angstrom), whatever the scan's values are.
+        taken from each point's molecule (angstrom), whatever the scan's values are. Unconverged points are left
+        out as in :meth:`equilibrium`.
         """
         from .analysis import diatomic_wavenumber
 
-        return diatomic_wavenumber(self, masses=masses, column=column)
+        return diatomic_wavenumber(self, masses=masses, column=column, include_unconverged=include_unconverged)
 
     def non_parallelity(self) -> dict[str, float]:
         """Non-parallelity error (Ha) against the exact reference: max(error) − min(error) along the curve, for

@@ -60,6 +60,14 @@ class _Lines:
     def __init__(self, text: str) -> None:
         self.lines = text.splitlines()
 
+    def quote(self, number: int | None) -> str:
+        """The text of line ``number`` (from 1), as it follows an error message: a new line, then ``  6 | ...``;
+        empty when there is no such line."""
+        if number is None or not 1 <= number <= len(self.lines):
+            return ""
+        text = self.lines[number - 1].rstrip()
+        return f"\n  {number} | {text[:200]}"
+
     def of(self, table: str, key: str | None = None) -> int | None:
         current = ""
         for number, line in enumerate(self.lines, start=1):
@@ -83,7 +91,7 @@ class _Reader:
         line = self.lines.of(table, key)
         where = f"{table}.{key}" if table and key else (key or table)
         at = f" (line {line})" if line else ""
-        return StudyFileError(f"{self.source}: {where}{at}: {message}")
+        return StudyFileError(f"{self.source}: {where}{at}: {message}{self.lines.quote(line)}")
 
     def check_keys(self, table: str, data: dict) -> None:
         for key in data:
@@ -114,7 +122,9 @@ def read_study(path: str | os.PathLike) -> Study:
     try:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as err:
-        raise StudyFileError(f"{source}: not valid TOML: {err}") from None
+        found = re.search(r"at line (\d+)", str(err))
+        quoted = _Lines(text).quote(int(found.group(1)) if found else None)
+        raise StudyFileError(f"{source}: not valid TOML: {err}{quoted}") from None
     r = _Reader(text, source)
     r.check_keys("", data)
     for table in ("molecule", "active_space", "components", "scan", "output"):

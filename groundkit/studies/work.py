@@ -8,6 +8,10 @@ only through the objective protocol (:class:`groundkit.energy_surface.EnergySurf
 Failures: a :class:`~groundkit.errors.GroundkitError` (bad input, no convergence, a size limit) comes back as the
 point's error message and the study goes on; any other exception is a programming error and is raised, so it
 cannot hide as a row of data.
+
+Ctrl-C: the minimisers turn a KeyboardInterrupt into a partial, not-converged result. A task does not pass such a
+result on as a finished point: it raises KeyboardInterrupt again, so the study stops and the point is computed
+again on a resume.
 """
 
 from __future__ import annotations
@@ -29,6 +33,7 @@ if TYPE_CHECKING:  # pragma: no cover
     from groundkit.result import RunResult
 
 ROLES = ("active_space", "mapping", "trial_state", "estimator", "minimiser")
+INTERRUPTED = "interrupted (KeyboardInterrupt)"  # how the minimisers and adaptive growth word a Ctrl-C stop
 
 
 @dataclass(frozen=True)
@@ -134,7 +139,8 @@ def run_task(task: Task) -> dict[str, Any]:
     """Run one point; returns a plain dict: ``result`` (RunResult dict or None), ``error``, ``start``,
     ``orbital_match``, ``handover``, ``molecule``, ``wall_time`` (s) and any ``extras`` asked for.
 
-    A GroundkitError becomes ``error`` (``"ClassName: message"``); any other exception propagates."""
+    A GroundkitError becomes ``error`` (``"ClassName: message"``); any other exception propagates, and so does
+    a Ctrl-C, also when the minimiser caught it and stopped early (see the module docstring)."""
     from groundkit.adaptive import Adaptive
     from groundkit.persistence import result_to_dict
 
@@ -149,6 +155,8 @@ def run_task(task: Task) -> dict[str, Any]:
             result = _run_adaptive(pipeline, task, answer)
         else:
             result = _run_fixed(pipeline, task, answer)
+        if INTERRUPTED in result.stop_reason:  # a partial result of a Ctrl-C: not a finished point
+            raise KeyboardInterrupt(f"Ctrl-C during the point {task.molecule!r}: {result.stop_reason}")
         answer["result"] = result_to_dict(result)
         for name in task.extras:
             answer["extras"][name] = _extra(pipeline, result, name)

@@ -102,3 +102,37 @@ def test_wavenumber_needs_one_diatomic():
         ScanResult(points=points, configuration={}).harmonic_wavenumber()
     with pytest.raises(AnalysisError, match="appears twice"):
         spline_minimum(np.array([0.1, 0.2, 0.2, 0.3]), np.array([1.0, 0.0, 0.0, 1.0]))
+
+
+def _scipy_spline_minimum(x: np.ndarray, y: np.ndarray) -> tuple[float, float]:
+    """Minimum of SciPy's not-a-knot cubic spline through (x, y), found here with SciPy alone."""
+    from scipy.interpolate import CubicSpline
+
+    spline = CubicSpline(x, y)
+    roots = [r for r in spline.derivative().roots(extrapolate=False) if spline(r, 2) > 0]
+    best = min(roots, key=spline)
+    return float(best), float(spline(best))
+
+
+def test_unconverged_points_are_left_out_of_the_fits_with_a_warning(uccsd_scan):
+    stopped = gk.Pipeline(h2(0.75)).trial_state(gk.UCCSD()).minimiser(gk.BFGS(max_iterations=1)).run()
+    assert not stopped.converged  # a real minimisation, stopped after one iteration
+    points = list(uccsd_scan.points)
+    points[4] = replace(points[4], result=stopped)
+    scan = replace(uccsd_scan, points=tuple(points))
+    x = np.array([p.value for p in scan.points])
+    y = np.array([p.result.energy for p in scan.points])
+    keep = np.arange(len(x)) != 4
+    with pytest.warns(gk.errors.ExcludedPointsWarning, match=r"1 point\(s\) .* did not converge .*values 0\.75;"):
+        value, energy = scan.equilibrium()
+    assert (value, energy) == pytest.approx(_scipy_spline_minimum(x[keep], y[keep]), abs=1e-10)  # SciPy
+    used = scan.equilibrium(include_unconverged=True)  # asked for: every point, no warning
+    assert used == pytest.approx(_scipy_spline_minimum(x, y), abs=1e-10)  # SciPy (reference library)
+    assert abs(used[0] - value) > 1e-5  # the stopped point moves the minimum
+    with pytest.warns(gk.errors.ExcludedPointsWarning, match="values 0.75"):
+        left_out = scan.harmonic_wavenumber()
+    whole = replace(uccsd_scan, points=tuple(p for k, p in enumerate(uccsd_scan.points) if k != 4))
+    assert left_out == pytest.approx(whole.harmonic_wavenumber(), abs=1e-9)  # internal consistency
+    assert scan.equilibrium(column="hf") == pytest.approx(uccsd_scan.equilibrium(column="hf"))  # baselines: all
+    with pytest.raises(AnalysisError, match="include_unconverged=1"):
+        scan.equilibrium(include_unconverged=1)

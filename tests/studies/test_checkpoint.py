@@ -1,3 +1,4 @@
+import json
 import os
 import signal
 import subprocess
@@ -6,13 +7,16 @@ import textwrap
 import time
 from pathlib import Path
 
+import numpy as np
 import pytest
 
 import groundkit as gk
-from groundkit.studies import CheckpointError
+from groundkit.errors import CheckpointBusyError, CheckpointWarning
+from groundkit.studies import CheckpointError, ScanInputError
 from groundkit.studies import scan as scan_module
 
-from .helpers import assert_same_scan, h2
+from .faults import ctrl_c_inside
+from .helpers import assert_same_scan, h2, pyscf_fci_curve
 
 VALUES = [0.6, 0.7, 0.8, 0.9]
 ROOT = Path(__file__).resolve().parents[2]
@@ -35,7 +39,8 @@ def test_a_second_run_skips_finished_points(tmp_path, monkeypatch):
     calls = _counting(monkeypatch)
     first = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
     assert len(calls) == 4
-    assert sorted(p.name for p in tmp_path.iterdir()) == ["manifest.json"] + [f"point-{k:05d}.json" for k in range(4)]
+    assert sorted(p.name for p in tmp_path.iterdir()) == [".groundkit-lock", "manifest.json"] + [
+        f"point-{k:05d}.json" for k in range(4)]
     again = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
     assert len(calls) == 4  # nothing recomputed
     assert_same_scan(first.table, again.table, atol=0)
@@ -97,8 +102,120 @@ def test_a_scan_killed_with_sigkill_resumes_to_the_uninterrupted_scan(tmp_path):
     child.wait()
     finished = len(list(directory.glob("point-*.json")))
     assert 3 <= finished < len(values)
+    # the killed scan's lock file still names it, but the operating system released its lock
+    assert json.loads((directory / ".groundkit-lock").read_text())["pid"] == child.pid
     resumed = gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, values, checkpoint=str(directory))
     files = sorted(p.name for p in directory.glob("point-*.json"))
     assert files == [f"point-{k:05d}.json" for k in range(len(values))]  # every point exactly once
     uninterrupted = gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, values)
     assert_same_scan(uninterrupted.table, resumed.table, atol=1e-9, same_process=False)
+
+
+# --- locking ------------------------------------------------------------------------------------------------------
+
+def test_a_second_scan_on_a_held_checkpoint_is_refused_naming_the_holder_and_deletes_nothing(tmp_path):
+    from groundkit.studies.checkpoint import CheckpointStore
+
+    holder = CheckpointStore(tmp_path, {"held": "by this test"})  # another scan, holding the directory
+    (tmp_path / ".groundkit-inflight.tmp").write_text('{"half": ')  # its write in progress
+    try:
+        with pytest.raises(CheckpointBusyError,
+                           match=rf"in use by another scan \(process {os.getpid()} on host .+, since 20"):
+            gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, VALUES[:1], checkpoint=str(tmp_path))
+        assert (tmp_path / ".groundkit-inflight.tmp").read_text() == '{"half": '  # the holder's work is untouched
+    finally:
+        holder.close()
+    assert issubclass(CheckpointBusyError, CheckpointError)
+
+
+# --- trust in point files -----------------------------------------------------------------------------------------
+
+def test_an_edited_point_file_is_set_aside_with_a_warning_and_recomputed(tmp_path):
+    pipeline = gk.Pipeline().trial_state(gk.UCCSD())
+    first = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
+    path = tmp_path / "point-00001.json"
+    data = json.loads(path.read_text())
+    data["point"]["result"]["energy"] -= 0.05  # a better-looking energy, typed in by hand
+    path.write_text(json.dumps(data))
+    with pytest.warns(CheckpointWarning, match=r"point-00001\.json: its checksum does not match its content.*"
+                                               r"set-aside"):
+        again = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
+    assert_same_scan(first.table, again.table)
+    assert json.loads((tmp_path / "set-aside" / "point-00001.1.json").read_text()) == data  # moved, not deleted
+    exact = pyscf_fci_curve(np.array(VALUES))  # PySCF FCI on the test's own molecules (reference library)
+    np.testing.assert_allclose(again.table["energy"], exact, atol=1e-8)
+
+
+def test_point_files_keep_the_users_umask(tmp_path):
+    old = os.umask(0o027)
+    try:
+        gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, VALUES[:1], checkpoint=str(tmp_path))
+    finally:
+        os.umask(old)
+    for name in ("manifest.json", "point-00000.json"):
+        assert (tmp_path / name).stat().st_mode & 0o777 == 0o640  # 0o666 less the umask, as open() gives
+
+
+# --- Ctrl-C, gaps and failed points ------------------------------------------------------------------------------
+
+def test_ctrl_c_inside_a_point_stops_the_scan_and_a_resume_recomputes_that_point(tmp_path, monkeypatch):
+    pipeline = gk.Pipeline().trial_state(gk.UCCSD())
+    whole = pipeline.scan(h2, VALUES)
+    seen = ctrl_c_inside(monkeypatch, 0.8)
+    with pytest.raises(KeyboardInterrupt):
+        pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
+    assert seen["calls"] == 2  # interrupted inside the third point's minimisation
+    assert sorted(p.name for p in tmp_path.glob("point-*.json")) == ["point-00000.json", "point-00001.json"]
+    monkeypatch.undo()
+    calls = _counting(monkeypatch)
+    resumed = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
+    assert [m.distance(0, 1) for m in calls] == pytest.approx([0.8, 0.9])
+    assert all(resumed.table["converged"])
+    assert_same_scan(whole.table, resumed.table)
+
+
+GAPPED = [round(0.55 + 0.05 * k, 2) for k in range(8)]
+
+
+def test_a_resume_with_gaps_starts_each_gap_from_its_finished_neighbour(tmp_path, monkeypatch):
+    pipeline = gk.Pipeline().trial_state(gk.UCCSD())
+    whole = pipeline.scan(h2, GAPPED, checkpoint=str(tmp_path))
+    for k in (2, 4, 5, 6):  # point 2 and points 4-6 lost
+        (tmp_path / f"point-{k:05d}.json").unlink()
+    resumed = pipeline.scan(h2, GAPPED, checkpoint=str(tmp_path))
+    assert_same_scan(whole.table, resumed.table)  # energies, parameters, iterations and starts to 1e-10
+    exact = pyscf_fci_curve(np.array(GAPPED))  # PySCF FCI on the test's own molecules (reference library)
+    np.testing.assert_allclose(resumed.table["energy"], exact, atol=1e-8)
+
+
+def test_failed_points_are_retried_on_request_and_keep_their_failure(tmp_path, monkeypatch):
+    from groundkit.errors import ConvergenceError
+    from groundkit.pipeline import Pipeline
+
+    real_run = Pipeline.run
+
+    def flaky(self, *args, **kwargs):  # a failure the library reports, at one geometry, this time only
+        if abs(self.components["molecule"].distance(0, 1) - 0.7) < 1e-9:
+            raise ConvergenceError("SCF did not converge (injected)")
+        return real_run(self, *args, **kwargs)
+
+    pipeline = gk.Pipeline().trial_state(gk.UCCSD())
+    monkeypatch.setattr(Pipeline, "run", flaky)
+    first = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
+    assert first.failures == {0.7: "ConvergenceError: SCF did not converge (injected)"}
+    monkeypatch.undo()
+    kept = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))  # default: a failed point stays failed
+    assert kept.failures == first.failures
+    retried = pipeline.scan(h2, VALUES, checkpoint=str(tmp_path), retry_failed=True)
+    assert retried.failures == {}
+    assert retried.points[1].earlier_failures == ("ConvergenceError: SCF did not converge (injected)",)
+    exact = pyscf_fci_curve(np.array(VALUES))  # PySCF FCI on the test's own molecules (reference library)
+    np.testing.assert_allclose(retried.table["energy"], exact, atol=1e-8)
+    # the history is kept in the checkpoint and in a saved scan
+    assert pipeline.scan(h2, VALUES, checkpoint=str(tmp_path)).points[1].earlier_failures == \
+        retried.points[1].earlier_failures
+    retried.save(str(tmp_path / "scan.json"))
+    assert gk.studies.load_scan(str(tmp_path / "scan.json")).points[1].earlier_failures == \
+        retried.points[1].earlier_failures
+    with pytest.raises(ScanInputError, match="retry_failed='yes'"):
+        pipeline.scan(h2, VALUES, checkpoint=str(tmp_path), retry_failed="yes")
