@@ -29,14 +29,31 @@ def _from_table(role: str, table: dict[str, Any]) -> Callable[..., Any]:
         key = name.strip().lower()
         if key not in table:
             raise ComponentError(f"unknown {role} {name!r}; accepted: {', '.join(sorted(table))}")
-        return table[key](**options)
+        return build_with_options(table[key], options)
 
     return build
 
 
+def build_with_options(cls: type, options: dict[str, Any]) -> Any:
+    """``cls(**options)``; an option name ``cls`` does not take is a ComponentError naming it and the accepted ones."""
+    fields = getattr(cls, "__dataclass_fields__", None)
+    if fields is not None:
+        accepted = [name for name, f in fields.items() if f.init and not name.startswith("_")]
+        unknown = sorted(set(options) - set(accepted))
+        if unknown:
+            raise ComponentError(
+                f"{cls.__name__} does not take option(s) {', '.join(map(repr, unknown))}; accepted options: "
+                f"{', '.join(accepted) or 'none'}"
+            )
+    return cls(**options)
+
+
 def as_mapping(value: Any, **options: Any) -> QubitMapping:
     """A QubitMapping from an instance or a name ('jordan-wigner', 'bravyi-kitaev', 'parity')."""
-    return _component("mapping", value, QubitMapping, QubitMapping, options)
+    def build(name: str, **given: Any) -> QubitMapping:
+        return build_with_options(QubitMapping, {"name": name, **given})
+
+    return _component("mapping", value, QubitMapping, build, options)
 
 
 def as_trial_state(value: Any, **options: Any) -> Any:

@@ -62,7 +62,7 @@ class Pipeline:
     def active_space(self, space: ActiveSpace | None = None, **options: Any) -> Pipeline:
         """Choose the active space: an :class:`ActiveSpace`, or its options (``electrons=2, orbitals=3``)."""
         if space is None:
-            space = ActiveSpace(**options)
+            space = _c.build_with_options(ActiveSpace, options)
         elif options:
             raise ComponentError("give an ActiveSpace or keyword options, not both")
         elif not isinstance(space, ActiveSpace):
