@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import inspect
 from collections.abc import Callable
 from typing import Any
 
@@ -36,9 +37,13 @@ def _from_table(role: str, table: dict[str, Any]) -> Callable[..., Any]:
 
 def build_with_options(cls: type, options: dict[str, Any]) -> Any:
     """``cls(**options)``; an option name ``cls`` does not take is a ComponentError naming it and the accepted ones."""
-    fields = getattr(cls, "__dataclass_fields__", None)
-    if fields is not None:
-        accepted = [name for name, f in fields.items() if f.init and not name.startswith("_")]
+    try:
+        parameters = inspect.signature(cls).parameters.values()
+    except (TypeError, ValueError):  # no signature to read: let the constructor decide
+        return cls(**options)
+    if not any(p.kind is inspect.Parameter.VAR_KEYWORD for p in parameters):
+        accepted = [p.name for p in parameters if p.kind in (inspect.Parameter.POSITIONAL_OR_KEYWORD,
+                                                              inspect.Parameter.KEYWORD_ONLY)]
         unknown = sorted(set(options) - set(accepted))
         if unknown:
             raise ComponentError(
