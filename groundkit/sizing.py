@@ -20,11 +20,14 @@ quiet machine: on busy cores expect up to a few times longer. See docs/limits.md
 from __future__ import annotations
 
 import math
+import numbers
 from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field, fields, replace
 from math import comb
 from typing import Any
+
+import numpy as np
 
 from . import chemistry
 from .elements import frozen_core_orbitals
@@ -91,13 +94,13 @@ class Limits:
         if name not in {f.name for f in fields(self)}:
             accepted = ", ".join(f.name for f in fields(self))
             raise ComponentError(f"limits has no setting {name!r}; accepted: {accepted}")
+        number = _finite(value)
         if name == "memory_fraction":
-            if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0 < value <= 1:
+            if number is None or not 0 < number <= 1:
                 raise ComponentError(f"limits.memory_fraction={value!r}; give a number in (0, 1]")
-        elif value is not None and (isinstance(value, bool) or not isinstance(value, (int, float))
-                                    or not math.isfinite(value) or value <= 0):
-            raise ComponentError(f"limits.{name}={value!r}; give a positive number or None (no limit)")
-        object.__setattr__(self, name, value)
+        elif value is not None and (number is None or number <= 0):
+            raise ComponentError(f"limits.{name}={value!r}; give a positive finite number or None (no limit)")
+        object.__setattr__(self, name, value if number is None else number)
 
     def memory_limit(self) -> float | None:
         """Bytes one stage may use: ``memory_bytes``, else ``memory_fraction`` of the available memory."""
@@ -117,6 +120,17 @@ class Limits:
         finally:
             for name, value in saved.items():
                 object.__setattr__(self, name, value)
+
+
+def _finite(value: Any) -> float | None:
+    """``value`` as a finite float, or None for anything else (bools, strings, NaN, infinities, huge integers)."""
+    if isinstance(value, (bool, np.bool_)) or not isinstance(value, numbers.Real):
+        return None
+    try:
+        number = float(value)
+    except OverflowError:
+        return None
+    return number if math.isfinite(number) else None
 
 
 limits = Limits()
