@@ -34,25 +34,25 @@ from .elements import frozen_core_orbitals
 from .errors import ComponentError, GroundkitError, SizeLimitError
 
 # ----------------------------------------------------------------------------------------------------------------
-# the cost model; constants fitted by ``benchmarks/cost_model.py --fit`` on the 2-core development machine while other
-# work shared it (load average about 5): a quiet machine runs up to about twice as fast
-ERI_SECONDS = 4.1e-8
+# the cost model; constants fitted by ``benchmarks/cost_model.py --fit`` on the 2-core development machine, shared with
+# other work (load average 1 to 4); a fit under heavier load (about 5) gave constants 2 to 4 times larger
+ERI_SECONDS = 1.25e-8
 """Seconds per primitive quartet, W^4/8, of the AO two-electron integrals (W: primitives × (2l+1) summed over
-shells). The SCF model is this plus the cycles (negligible in core); it under-predicts compact hydrogen clusters
-about 3× and over-predicts extended molecules with diffuse functions (screening) about 1.4×."""
+shells). The SCF model is this alone in core (the cycles cost little beside it): within 0.2 to 1.6 of the measured
+time on the benchmark molecules; compact hydrogen clusters run longer, extended molecules a little faster."""
 SCF_CYCLES = 20
 """SCF cycles assumed when the integrals are recomputed in every cycle (direct SCF); plain DIIS converged in 8 to
 15 cycles on the benchmark molecules."""
-TRANSFORM_SECONDS = 1.3e-9
+TRANSFORM_SECONDS = 3.3e-10
 """Seconds per n_ao^4 × n_active of the AO-to-active-orbital integral transformation."""
-H_PAIR_SECONDS = 1.0e-10
+H_PAIR_SECONDS = 3.2e-11
 """Seconds per determinant × (active orbital pairs)^2 of one H·ψ (PySCF's contract_2e is a matrix product)."""
-PAIR_SECONDS = 3.1e-8
+PAIR_SECONDS = 1.4e-8
 """Seconds per determinant pair rotated by one excitation in one energy+gradient (forward and backward sweeps)."""
-STEP_SECONDS = 1.8e-4
+STEP_SECONDS = 2.6e-5
 """Seconds of fixed (Python) cost per excitation in one energy+gradient."""
-REFERENCE_SIGMA_CALLS = 30
-"""H·ψ products of PySCF's Davidson solver for the exact reference (fitted: 27, with the spin check)."""
+REFERENCE_SIGMA_CALLS = 37
+"""H·ψ products of PySCF's Davidson solver for the exact reference (with the spin check and restarts)."""
 ENGINE_VECTORS = 8
 """CI-sized float64 arrays the determinant engine holds at once in an energy+gradient: ψ and Hψ with a transposed
 copy of each in the backward sweep, contract_2e's output and the gathered blocks (measured peak NumPy memory /
@@ -237,7 +237,10 @@ class CostEstimate:
                    f"(n^4 tensor and its compact form), time ~{format_seconds(self.integral_seconds)}")
         out.append(f"  determinants: {format_count(self.n_determinants)}; exact reference "
                    f"{format_bytes(self.reference_bytes)}, ~{format_seconds(self.reference_seconds)}")
-        out.append(f"  determinant engine: {self.engine_vectors} CI vectors, {format_bytes(self.engine_bytes)}")
+        if self.engine_vectors:
+            out.append(f"  determinant engine: {self.engine_vectors} CI vectors, {format_bytes(self.engine_bytes)}")
+        else:
+            out.append(f"  statevector objective: {STATEVECTORS} statevectors, {format_bytes(self.engine_bytes)}")
         tag = " (the trial state or estimator works on the register)" if self.qubit_level else ""
         out.append(f"  qubits: {self.n_qubits}; one statevector {format_bytes(self.statevector_bytes)}{tag}")
         params = format_count(self.n_parameters) if self.n_parameters is not None else "unknown"
@@ -262,7 +265,9 @@ def format_bytes(value: float | None) -> str:
     for unit, size in (("TiB", 2**40), ("GiB", 2**30), ("MiB", 2**20), ("KiB", 2**10)):
         if value >= size:
             scaled = value / size
-            return f"{scaled:.3g} {unit}" if scaled < 1e4 else f"{value:.3g} bytes"
+            if scaled >= 1e4:
+                return f"{value:.3g} bytes"
+            return f"{scaled:.3g} {unit}" if scaled < 1000 else f"{scaled:.0f} {unit}"
     return f"{value:.0f} bytes"
 
 
@@ -470,17 +475,17 @@ def estimate_for(molecule: Any, active_space: Any = None, trial_state: Any = Non
     qubit_level = isinstance(trial_state, QubitTrialState) or (estimator is not None and not estimator.exact)
     if isinstance(trial_state, QubitTrialState):
         n_params, note = _qubit_parameters(trial_state, n_qubits), ""
-        seconds = None
-        engine_bytes = 8.0 * STATEVECTORS * 2.0 ** min(n_qubits, 1000)
+        seconds, engine_vectors = None, 0
+        engine_bytes = 16.0 * STATEVECTORS * 2.0 ** min(n_qubits, 1000)
     else:
         n_params, n_exc, pairs, note = (_trial_plan(trial_state, window, molecule.multiplicity) if with_plan
                                         else (None, 0, 0, "not listed"))
         seconds = evaluation_seconds(n, na, nb, n_exc, pairs) if n_params is not None else None
-        engine_bytes = 8.0 * ENGINE_VECTORS * _big(window.n_determinants)
+        engine_bytes, engine_vectors = 8.0 * ENGINE_VECTORS * _big(window.n_determinants), ENGINE_VECTORS
     estimate = CostEstimate(
         **base, window=window, integral_bytes=integral_bytes, integral_seconds=integral_seconds,
         n_determinants=window.n_determinants, reference_bytes=reference_bytes, reference_seconds=reference_seconds,
-        engine_bytes=engine_bytes, n_qubits=n_qubits, qubit_level=qubit_level,
+        engine_vectors=engine_vectors, engine_bytes=engine_bytes, n_qubits=n_qubits, qubit_level=qubit_level,
         statevector_bytes=16.0 * 2.0 ** min(n_qubits, 1000), n_parameters=n_params, parameter_note=note,
         evaluation_seconds=seconds,
     )
@@ -559,7 +564,9 @@ def _refusals(e: CostEstimate, stages: tuple[str, ...]) -> list[str]:
                 out.append(f"the determinant engine needs {format_count(e.n_determinants)} determinants, above "
                            f"its limit of {MAX_DETERMINANTS:,}")
             else:
-                over_memory(f"the determinant engine ({e.engine_vectors} CI vectors)", e.engine_bytes)
+                what = (f"the determinant engine ({e.engine_vectors} CI vectors)" if e.engine_vectors
+                        else f"the statevector objective ({STATEVECTORS} statevectors)")
+                over_memory(what, e.engine_bytes)
         over_time("one energy+gradient", e.evaluation_seconds, limits.evaluation_seconds, "evaluation_seconds")
     if "study" in stages and e.points > 1:
         over_time(f"the study ({e.points} points)", e.study_seconds, limits.study_seconds, "study_seconds")
@@ -568,41 +575,45 @@ def _refusals(e: CostEstimate, stages: tuple[str, ...]) -> list[str]:
 
 def suggest_window(molecule: Any, estimate: CostEstimate, stages: tuple[str, ...], trial_state: Any = None,
                    estimator: Any = None, mapping: Any = None) -> Window | None:
-    """The window around the Fermi level with the most determinants, no more electrons or orbitals than asked,
-    that passes ``stages`` (for each electron count, the largest orbital count that fits, by bisection)."""
+    """The largest window around the Fermi level, with no more electrons or orbitals than asked, that passes
+    ``stages``: for o orbitals it holds min(asked electrons, o) electrons (half filling, where the determinants
+    peak), and the largest o that fits is found by bisection (costs grow with o along these windows)."""
     window = estimate.window
     if window is None:
         return None
     unpaired = molecule.multiplicity - 1
 
-    def fits(candidate: Window) -> bool:
-        options = dict(trial_state=trial_state, estimator=estimator, mapping=mapping, window=candidate,
+    def candidate(n_orbitals: int) -> Window | None:
+        electrons = min(window.n_electrons, n_orbitals)
+        electrons -= (electrons - unpaired) % 2
+        if electrons < unpaired or (electrons + unpaired) // 2 > n_orbitals:
+            return None
+        core = window.n_core + (window.n_electrons - electrons) // 2
+        if core + n_orbitals > estimate.n_ao:
+            return None
+        return Window(n_orbitals, (electrons + unpaired) // 2, (electrons - unpaired) // 2, core)
+
+    def fits(n_orbitals: int) -> bool:
+        trial = candidate(n_orbitals)
+        if trial is None:
+            return False
+        options = dict(trial_state=trial_state, estimator=estimator, mapping=mapping, window=trial,
                        points=estimate.points)
         if _refusals(estimate_for(molecule, with_plan=False, **options), stages):  # cheap figures first
             return False
         return not _refusals(estimate_for(molecule, **options), stages)
 
-    best, worse = None, 0
-    for electrons in range(window.n_electrons, unpaired - 1, -2):
-        core = window.n_core + (window.n_electrons - electrons) // 2
-        n_alpha, n_beta = (electrons + unpaired) // 2, (electrons - unpaired) // 2
-        low, high = max(n_alpha, 1), min(window.n_orbitals, estimate.n_ao - core)
-        if low > high or not fits(Window(low, n_alpha, n_beta, core)):
-            continue
-        while low < high:  # largest orbital count that fits: costs grow with it
-            middle = (low + high + 1) // 2
-            if fits(Window(middle, n_alpha, n_beta, core)):
-                low = middle
-            else:
-                high = middle - 1
-        candidate = Window(low, n_alpha, n_beta, core)
-        if best is None or candidate.n_determinants > best.n_determinants:
-            best, worse = candidate, 0
+    low = next((o for o in range(max(unpaired, 1), min(window.n_orbitals, unpaired + 2) + 1) if fits(o)), None)
+    if low is None:
+        return None
+    high = window.n_orbitals
+    while low < high:
+        middle = (low + high + 1) // 2
+        if fits(middle):
+            low = middle
         else:
-            worse += 1
-            if worse >= 3:  # past the best electron count
-                break
-    return best
+            high = middle - 1
+    return candidate(low)
 
 
 def refuse(molecule: Any, estimate: CostEstimate, stages: tuple[str, ...], what: str, **components: Any) -> None:

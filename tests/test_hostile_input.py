@@ -1,4 +1,4 @@
-"""Property-based hostile input: whatever a user passes, the only exceptions escaping the public API are GroundkitErrors.
+"""Property-based hostile input: whatever a user passes, only GroundkitErrors escape the public API.
 
 Each test draws malformed input from a strategy below and calls one entry point through :func:`only_groundkit_errors`:
 a GroundkitError (our refusal, naming the value) passes, any other exception fails the example. To cover a new entry

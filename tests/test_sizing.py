@@ -126,6 +126,9 @@ def test_200_atom_hydrogen_cluster_is_refused_before_scf(no_scf):
         message = str(info.value)
         assert "refused before any heavy work" in message and "200 atomic orbitals" in message
         assert "determinants" in message and "integrals" in message
+        suggested = re.search(r"ActiveSpace\(electrons=(\d+), orbitals=(\d+)\)", message)
+        assert suggested and gk.cost_estimate(gk.Pipeline(h200).active_space(
+            electrons=int(suggested[1]), orbitals=int(suggested[2]))).fits, message
     # a machine with 8 GiB to spare cannot hold the 200^4 active-space tensor (11.9 GiB alone): problem() refuses
     with gk.limits.changed(memory_bytes=8 * 2**30):
         with pytest.raises(gk.SizeLimitError, match=r"active-space integrals \(200e, 200o\) needs 17.9 GiB"):
@@ -184,9 +187,9 @@ def test_qubit_statevectors_are_refused_before_scf(no_scf):
         sampled.run()
 
 
-def test_small_requests_run_as_before(h2o):
-    result = gk.Pipeline(h2o).active_space(electrons=4, orbitals=4).run()
-    assert result.converged and abs(result.error) < 1.6e-3
+def test_small_requests_run_as_before(h2_bohr, h2o):
+    result = gk.Pipeline(h2_bohr).run()
+    assert result.converged and result.energy == pytest.approx(-1.1373, abs=1e-4)  # Szabo and Ostlund, full CI
     e = gk.cost_estimate(gk.Pipeline(h2o))
     assert e.fits and e.evaluation_seconds < 1 and e.scf_seconds < 1
 
