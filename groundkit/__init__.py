@@ -84,6 +84,7 @@ from .qubit_states import CircuitTrialState, HardwareEfficient, PauliRotations, 
 from .qubits import QubitEncoding, compare_mappings
 from .reference import ExactState, Reference
 from .result import CHEMICAL_ACCURACY, History, ReferenceRecord, Resources, RunResult
+from .sizing import CostEstimate, Limits, cost_estimate, limits
 from .studies import BondStretch, GeometryOptimum, ScanPoint, ScanResult, compare, load_scan
 from .trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, TrialState, UpCCGSD
 from .widgets import explore
@@ -108,5 +109,5 @@ __all__ = [
     "as_mapping", "as_minimiser", "as_trial_state", "build_problem", "circuit_from_openqasm", "circuit_resources",
     "compare", "compare_mappings", "compare_measurements", "explore", "grown_sequence", "grown_trial_state",
     "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
-    "studies", "trial_circuit",
+    "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits",
 ]

@@ -56,7 +56,10 @@ class ActiveSpace:
                 f"orbitals={self.orbitals!r}), or indices=[...]"
             )
         if self.indices is not None:
-            idx = tuple(self.indices)
+            try:
+                idx = tuple(self.indices) if not isinstance(self.indices, (str, bytes)) else ()
+            except TypeError:
+                idx = ()
             if not idx or not all(_is_int(i) and i >= 0 for i in idx):
                 raise ActiveSpaceError(f"indices={self.indices!r} must be a non-empty list of orbital indices >= 0")
             if len(set(idx)) != len(idx):
@@ -64,10 +67,12 @@ class ActiveSpace:
             if self.orbitals is not None and self.orbitals != len(idx):
                 raise ActiveSpaceError(f"orbitals={self.orbitals} disagrees with {len(idx)} indices given")
             object.__setattr__(self, "indices", tuple(sorted(int(i) for i in idx)))
-        if self.selection not in ("window", "mp2-occupation"):
+        if not isinstance(self.selection, str) or self.selection not in ("window", "mp2-occupation"):
             raise ActiveSpaceError(f"selection={self.selection!r}; accepted: 'window', 'mp2-occupation'")
-        low, high = self.occupation_window
-        if not 0.0 < low < high < 2.0:
+        window = self.occupation_window
+        if (not isinstance(window, (tuple, list)) or len(window) != 2
+                or not all(isinstance(x, (int, float, np.floating, np.integer)) and not isinstance(x, bool)
+                           for x in window) or not 0.0 < window[0] < window[1] < 2.0):
             raise ActiveSpaceError(
                 f"occupation_window={self.occupation_window!r} must satisfy 0 < low < high < 2 (electrons)"
             )

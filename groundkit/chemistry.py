@@ -149,6 +149,37 @@ def check_basis(basis: str, symbol: str) -> None:
         raise BasisError(f"basis {basis!r} has no functions for {symbol}; choose a basis set that covers it")
 
 
+@lru_cache(maxsize=512)
+def atom_basis_size(basis: str, symbol: str) -> tuple[int, int]:
+    """(spherical basis functions, primitive weight) of one atom of ``symbol`` in ``basis``, without any integral.
+
+    The weight, the sum over the atom's shells of primitives times components (2l+1), is the cost measure of the
+    SCF time model in :mod:`groundkit.sizing`. Read by PySCF from a one-atom molecule (milliseconds, cached);
+    raises :class:`BasisError` like :func:`check_basis`.
+    """
+    from pyscf import gto
+
+    check_basis(basis, symbol)
+    mol = gto.Mole()
+    mol.atom = [(symbol, (0.0, 0.0, 0.0))]
+    mol.basis = basis
+    mol.spin = gto.charge(symbol) % 2
+    mol.verbose = 0
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")
+        mol.build(dump_input=False, parse_arg=False)
+    weight = sum(mol.bas_nprim(i) * (2 * mol.bas_angular(i) + 1) for i in range(mol.nbas))
+    return int(mol.nao_nr()), int(weight)
+
+
+def pyscf_max_memory() -> float:
+    """PySCF's working-memory setting in MB (``pyscf.lib.param.MAX_MEMORY``; env ``PYSCF_MAX_MEMORY``): above it the
+    SCF computes its two-electron integrals directly in every cycle instead of storing them."""
+    from pyscf import lib
+
+    return float(lib.param.MAX_MEMORY)
+
+
 def build_mole(spec: MoleculeSpec) -> Any:
     """A PySCF ``Mole`` for the spec; unknown or incomplete basis sets raise :class:`BasisError`."""
     from pyscf import gto

@@ -3,12 +3,15 @@
 from __future__ import annotations
 
 import math
+import numbers
 import os
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field, replace
 from typing import TYPE_CHECKING, Any
 
-from .chemistry import check_basis
+import numpy as np
+
+from .chemistry import atom_basis_size, check_basis
 from .elements import atomic_number, canonical_symbol
 from .errors import BasisError, ChargeError, ElementError, GeometryError, MultiplicityError, XYZFormatError
 
@@ -17,6 +20,11 @@ if TYPE_CHECKING:  # pragma: no cover
 
 BOHR_PER_ANGSTROM = 1.8897261245650618  # CODATA 2018 Bohr radius 0.529177210903 Å
 MIN_DISTANCE_ANGSTROM = 0.1
+MAX_EXTENT_ANGSTROM = 100.0
+"""Largest distance between two atoms of one molecule (Å): fragments 50 Å apart (a dissociation limit) are fine,
+1e6 Å is a unit or typing mistake."""
+MAX_COORDINATE_ANGSTROM = 1000.0
+"""Largest magnitude of any coordinate (Å, after conversion from bohr)."""
 UNITS = ("angstrom", "bohr")
 
 
@@ -51,15 +59,19 @@ class MoleculeSpec:
         for symbol in set(symbols):
             check_basis(self.basis, symbol)
         _check_distances(symbols, self.coordinates_angstrom)
-        _check_charge_and_spin(symbols, self.charge, self.multiplicity)
-        object.__setattr__(self, "charge", int(self.charge))
-        object.__setattr__(self, "multiplicity", int(self.multiplicity))
+        charge, multiplicity = _whole_number(self.charge, "charge"), _whole_number(self.multiplicity, "multiplicity")
+        _check_charge_and_spin(symbols, charge, multiplicity)
+        n_orbitals = sum(atom_basis_size(self.basis, s)[0] for s in symbols)
+        _check_occupation(self.basis, hill_formula(symbols), n_orbitals, charge, multiplicity,
+                          sum(atomic_number(s) for s in symbols))
+        object.__setattr__(self, "charge", charge)
+        object.__setattr__(self, "multiplicity", multiplicity)
 
     # construction -------------------------------------------------------------------------------------------
     @classmethod
     def from_xyz(
         cls,
-        text_or_path: str | os.PathLike,
+        text_or_path: str | bytes | os.PathLike,
         *,
         basis: str = "sto-3g",
         charge: int = 0,
@@ -67,7 +79,8 @@ class MoleculeSpec:
         unit: str = "angstrom",
         name: str | None = None,
     ) -> MoleculeSpec:
-        """Read plain XYZ text or a file: optional count and comment lines, then ``symbol x y z`` per atom."""
+        """Read plain XYZ text (str or UTF-8 bytes) or a file: optional count and comment lines, then ``symbol x y z``
+        per atom. A directory, a missing or unreadable file, or binary content raises XYZFormatError."""
         text = _read_text(text_or_path)
         symbols, coords, comment = parse_xyz(text)
         return cls(
@@ -184,7 +197,7 @@ def _check_coordinates(coordinates: Any, n_atoms: int) -> tuple[tuple[float, flo
     for k, row in enumerate(rows):
         try:
             values = tuple(float(x) for x in row)
-        except (TypeError, ValueError):
+        except (TypeError, ValueError, OverflowError):
             raise GeometryError(f"coordinates row {k} = {row!r} is not three numbers (x, y, z)") from None
         if len(values) != 3:
             raise GeometryError(f"coordinates row {k} = {row!r} has {len(values)} values; give three (x, y, z)")
@@ -197,21 +210,49 @@ def _check_coordinates(coordinates: Any, n_atoms: int) -> tuple[tuple[float, flo
 
 
 def _check_distances(symbols: tuple[str, ...], coords: tuple[tuple[float, float, float], ...]) -> None:
-    for i in range(len(coords)):
-        for j in range(i):
-            d = math.dist(coords[i], coords[j])
-            if d < MIN_DISTANCE_ANGSTROM:
-                raise GeometryError(
-                    f"atoms {j} ({symbols[j]}) and {i} ({symbols[i]}) are {d:.4f} Å apart; "
-                    f"atoms must be at least {MIN_DISTANCE_ANGSTROM} Å apart (check the unit)"
-                )
+    """Every coordinate within ±MAX_COORDINATE_ANGSTROM, atoms at least MIN_DISTANCE_ANGSTROM apart and at most
+    MAX_EXTENT_ANGSTROM apart (all in Å)."""
+    xyz = np.asarray(coords, dtype=float).reshape(-1, 3)
+    far = np.flatnonzero(np.abs(xyz).max(axis=1) > MAX_COORDINATE_ANGSTROM)
+    if far.size:
+        k = int(far[0])
+        raise GeometryError(
+            f"atom {k} ({symbols[k]}) is at {tuple(float(x) for x in xyz[k])} Å; every coordinate must lie within "
+            f"±{MAX_COORDINATE_ANGSTROM:g} Å of the origin (check the unit)"
+        )
+    for i in range(1, len(xyz)):
+        d = np.sqrt(((xyz[:i] - xyz[i]) ** 2).sum(axis=1))
+        j = int(np.argmin(d))
+        if d[j] < MIN_DISTANCE_ANGSTROM:
+            raise GeometryError(
+                f"atoms {j} ({symbols[j]}) and {i} ({symbols[i]}) are {d[j]:.4f} Å apart; "
+                f"atoms must be at least {MIN_DISTANCE_ANGSTROM} Å apart (check the unit)"
+            )
+        j = int(np.argmax(d))
+        if d[j] > MAX_EXTENT_ANGSTROM:
+            raise GeometryError(
+                f"atoms {j} ({symbols[j]}) and {i} ({symbols[i]}) are {d[j]:.6g} Å apart; atoms of one molecule "
+                f"must be at most {MAX_EXTENT_ANGSTROM:g} Å apart (fragments 50 Å apart model a dissociation "
+                "limit; check the unit and the coordinates)"
+            )
 
 
-def _check_charge_and_spin(symbols: tuple[str, ...], charge: Any, multiplicity: Any) -> None:
-    if int(charge) != charge:
-        raise ChargeError(f"charge {charge!r} must be an integer")
-    if int(multiplicity) != multiplicity:
-        raise MultiplicityError(f"multiplicity {multiplicity!r} must be an integer 2S+1 >= 1")
+def _whole_number(value: Any, what: str) -> int:
+    """``value`` as an int: an integer or a float with an integral value; never a bool, None, string, NaN or inf."""
+    error = ChargeError if what == "charge" else MultiplicityError
+    accepted = ("an integer such as 0, 1 or -1" if what == "charge"
+                else "an integer 2S+1 >= 1 (1 singlet, 2 doublet, 3 triplet, ...)")
+    if isinstance(value, (bool, np.bool_)) or not isinstance(value, (numbers.Integral, numbers.Real)):
+        raise error(f"{what} {value!r} ({type(value).__name__}) is not accepted; give {accepted}")
+    if isinstance(value, numbers.Integral):
+        return int(value)
+    number = float(value)
+    if not math.isfinite(number) or number != int(number):
+        raise error(f"{what} {value!r} is not accepted; give {accepted}")
+    return int(number)
+
+
+def _check_charge_and_spin(symbols: tuple[str, ...], charge: int, multiplicity: int) -> None:
     n_electrons = sum(atomic_number(s) for s in symbols) - int(charge)
     if n_electrons <= 0:
         raise ChargeError(
@@ -230,14 +271,68 @@ def _check_charge_and_spin(symbols: tuple[str, ...], charge: Any, multiplicity: 
         )
 
 
-def _read_text(text_or_path: str | os.PathLike) -> str:
+def _check_occupation(basis: str, formula: str, n_orbitals: int, charge: int, multiplicity: int,
+                      nuclear_charge: int) -> None:
+    """The electrons must fit the basis: at most 2 per spatial orbital, and the alpha electrons (N + 2S)/2 at most
+    one per orbital. Refused here, before PySCF is called (PySCF itself fails with 'Failed to assign mo_occ')."""
+    n_electrons = nuclear_charge - charge
+    n_unpaired = multiplicity - 1
+    n_alpha = (n_electrons + n_unpaired) // 2
+    if n_electrons > 2 * n_orbitals:
+        raise ChargeError(
+            f"charge {charge:+d} leaves {n_electrons} electrons but {formula} in {basis} has {n_orbitals} spatial "
+            f"orbitals ({2 * n_orbitals} spin orbitals); the charge must be at least "
+            f"{nuclear_charge - 2 * n_orbitals:+d} (at most {2 * n_orbitals} electrons) in this basis"
+        )
+    if n_alpha > n_orbitals:
+        highest = min(n_electrons, 2 * n_orbitals - n_electrons) + 1
+        raise MultiplicityError(
+            f"multiplicity {multiplicity} puts {n_alpha} alpha electrons ({n_unpaired} unpaired of {n_electrons}) "
+            f"in {n_orbitals} spatial orbital(s) of {formula} in {basis}; at most {n_orbitals} fit, so the "
+            f"multiplicity can be at most {highest} here (or choose a larger basis set)"
+        )
+
+
+def _read_text(text_or_path: str | bytes | os.PathLike) -> str:
+    """XYZ text itself, or the content of the file it names; XYZFormatError for a directory, a missing or
+    unreadable file, or content that is not UTF-8 text."""
+    if isinstance(text_or_path, (bytes, bytearray)):
+        return _decode(bytes(text_or_path), "the bytes given")
     if isinstance(text_or_path, os.PathLike):
-        with open(text_or_path, encoding="utf-8") as fh:
-            return fh.read()
-    text = str(text_or_path)
-    if "\n" not in text.strip() and os.path.isfile(text):
-        with open(text, encoding="utf-8") as fh:
-            return fh.read()
+        return _read_file(os.fspath(text_or_path))
+    if not isinstance(text_or_path, str):
+        raise XYZFormatError(
+            f"from_xyz takes XYZ text, bytes or a path, got {type(text_or_path).__name__} {text_or_path!r:.60}"
+        )
+    text = text_or_path
+    stripped = text.strip()
+    if "\n" not in stripped and "\x00" not in stripped and (os.path.exists(stripped)
+                                                          or stripped.lower().endswith(".xyz")):
+        return _read_file(stripped)
+    return text
+
+
+def _read_file(path: str) -> str:
+    if os.path.isdir(path):
+        raise XYZFormatError(f"{path!r} is a directory; give an XYZ file or XYZ text")
+    try:
+        with open(path, "rb") as fh:
+            data = fh.read()
+    except OSError as err:
+        raise XYZFormatError(f"cannot read XYZ file {path!r}: {err.strerror or err}") from None
+    return _decode(data, f"file {path!r}")
+
+
+def _decode(data: bytes, what: str) -> str:
+    try:
+        text = data.decode("utf-8")
+    except UnicodeDecodeError as err:
+        raise XYZFormatError(
+            f"{what} is not UTF-8 text (byte 0x{data[err.start]:02x} at offset {err.start}); an XYZ file is plain "
+            "text: a count line, a comment line, then 'symbol x y z' per atom"
+        ) from None
+    if "\x00" in text:
+        raise XYZFormatError(f"{what} holds NUL bytes, so it is binary, not XYZ text")
     return text
 
 
@@ -249,8 +344,8 @@ def parse_xyz(text: str) -> tuple[tuple[str, ...], tuple[tuple[float, float, flo
     start, comment, expected = 0, "", None
     while start < len(lines) and not lines[start].strip():
         start += 1
-    if start < len(lines) and lines[start].strip().isdigit():
-        expected = int(lines[start].strip())
+    if start < len(lines) and lines[start].strip().isdecimal() and lines[start].strip().isascii():
+        expected = int(lines[start].strip()[:30])
         comment = lines[start + 1].strip() if start + 1 < len(lines) else ""
         start += 2
     symbols: list[str] = []
@@ -263,7 +358,7 @@ def parse_xyz(text: str) -> tuple[tuple[str, ...], tuple[tuple[float, float, flo
             raise XYZFormatError(f"line {number}: {line.strip()!r} has {len(fields)} fields; expected 'symbol x y z'")
         try:
             xyz = (float(fields[1]), float(fields[2]), float(fields[3]))
-        except ValueError:
+        except (ValueError, OverflowError):
             raise XYZFormatError(f"line {number}: {line.strip()!r} has coordinates that are not numbers") from None
         try:
             symbols.append(canonical_symbol(fields[0]))

@@ -13,13 +13,14 @@ from dataclasses import dataclass, replace
 from typing import Any
 
 from . import components as _c
+from . import sizing
 from .active_space import ActiveSpace
 from .energy_surface import EnergySurface
 from .errors import ComponentError
 from .estimators import Estimator, ExactEstimator
 from .mapping import QubitMapping
 from .molecule import MoleculeSpec
-from .problem import Problem, build_problem
+from .problem import Problem, build_problem, cached_problem
 
 OBJECTIVE_CACHE_SIZE = 32
 
@@ -62,7 +63,7 @@ class Pipeline:
     def active_space(self, space: ActiveSpace | None = None, **options: Any) -> Pipeline:
         """Choose the active space: an :class:`ActiveSpace`, or its options (``electrons=2, orbitals=3``)."""
         if space is None:
-            space = ActiveSpace(**options)
+            space = _c.build_with_options(ActiveSpace, options)
         elif options:
             raise ComponentError("give an ActiveSpace or keyword options, not both")
         elif not isinstance(space, ActiveSpace):
@@ -115,6 +116,7 @@ class Pipeline:
         whatever their estimator); the estimator's values come from :meth:`measurement`."""
         from .objective import Objective
 
+        self.check_size(("scf", "integrals", "engine"), "this objective")
         problem = self.problem()
         trial_state = self.resolved_components()["trial_state"]
         if _is_qubit_trial_state(trial_state):
@@ -141,6 +143,16 @@ class Pipeline:
             while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
                 _OBJECTIVES.popitem(last=False)
         return cached
+
+    def check_size(self, stages: tuple[str, ...] = sizing.STAGES, what: str = "this pipeline") -> Any:
+        """Raise :class:`~groundkit.errors.SizeLimitError` at once, before any SCF, when a stage's predicted memory
+        or time exceeds :data:`groundkit.limits`; returns the :class:`~groundkit.sizing.CostEstimate`. Once the
+        problem exists its actual active space is used."""
+        molecule = self._components.molecule
+        if molecule is None:
+            raise ComponentError("this pipeline has no molecule yet; use Pipeline(molecule) or .molecule(spec)")
+        problem = cached_problem(molecule, self._components.active_space)
+        return sizing.check_pipeline(self, stages, what, problem=problem)
 
     def encoding(self) -> Any:
         """The problem under the chosen mapping (tapered if asked): a shared :class:`QubitEncoding`."""
@@ -205,6 +217,7 @@ class Pipeline:
         ``live=True`` displays a notebook view that follows the run and keeps its final figure;
         ``progress=True`` shows a tqdm bar of iterations (see docs/notebook.md).
         """
+        self.check_size(("scf", "integrals", "reference", "engine"), "this run")
         if live or progress:
             from .widgets.running import run_watched
 

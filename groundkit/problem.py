@@ -12,7 +12,7 @@ from math import comb
 
 import numpy as np
 
-from . import chemistry
+from . import chemistry, sizing
 from .active_space import ActiveSpace, ResolvedActiveSpace
 from .baselines import Baselines
 from .errors import IntegralConsistencyError, SizeLimitError
@@ -128,6 +128,7 @@ class Problem:
         if k < 1:
             raise SizeLimitError(f"k={k} states asked for; ask for at least 1")
         if len(self._states) < k:
+            sizing.check_reference(self.n_orbitals, self.n_alpha, self.n_beta)  # memory and time, before PySCF
             if self.n_determinants > REFERENCE_DETERMINANT_LIMIT:
                 raise SizeLimitError(
                     f"the exact reference needs {self.n_determinants:,} determinants, above the limit of "
@@ -200,6 +201,7 @@ def build_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = Non
     key = (molecule, active_space if active_space is not None else ActiveSpace())
     problem = _PROBLEM_CACHE.get(key)
     if problem is None:
+        sizing.check_problem(molecule, key[1])  # SCF and integral memory and time, before any PySCF call
         problem = Problem(molecule, key[1])
         _PROBLEM_CACHE[key] = problem
         while len(_PROBLEM_CACHE) > PROBLEM_CACHE_SIZE:
@@ -207,3 +209,8 @@ def build_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = Non
     else:
         _PROBLEM_CACHE.move_to_end(key)
     return problem
+
+
+def cached_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> Problem | None:
+    """The cached Problem for this molecule and active space, or None (nothing is computed)."""
+    return _PROBLEM_CACHE.get((molecule, active_space if active_space is not None else ActiveSpace()))

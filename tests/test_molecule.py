@@ -137,3 +137,117 @@ def test_carbon_without_hydrogen_in_errors_and_a_run():
     mf = scf.ROHF(gto.M(atom="C 0 0 0", basis="sto-3g", spin=2, verbose=0)).run(conv_tol=1e-10)
     e_casci = mcscf.CASCI(mf, 4, (3, 1)).kernel()[0]
     assert result.energy == pytest.approx(e_casci, abs=1e-6)  # PySCF CASCI (reference library); 36 determinants
+
+
+# bad input refused before PySCF (issue 13) ------------------------------------------------------------------------
+H2 = dict(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 0.74)))
+
+
+@pytest.mark.parametrize("value", [float("nan"), float("inf"), -float("inf"), None, "1", True, False, 0.5, [0]])
+def test_charge_of_the_wrong_kind_names_the_value(value):
+    with pytest.raises(gk.ChargeError, match=r"charge .* is not accepted; give an integer"):
+        gk.MoleculeSpec(**H2, charge=value)
+
+
+@pytest.mark.parametrize("value", [float("nan"), float("inf"), None, "1", True, 1.5, (1,)])
+def test_multiplicity_of_the_wrong_kind_names_the_value(value):
+    with pytest.raises(gk.MultiplicityError, match=r"multiplicity .* is not accepted; give an integer 2S\+1"):
+        gk.MoleculeSpec(**H2, multiplicity=value)
+
+
+def test_whole_numbers_of_other_types_are_accepted():
+    import numpy as np
+
+    spec = gk.MoleculeSpec(**H2, charge=np.int64(0), multiplicity=1.0)
+    assert spec.charge == 0 and type(spec.charge) is int and spec.multiplicity == 1 and type(spec.multiplicity) is int
+
+
+def test_helium_triplet_in_sto3g_is_refused_before_pyscf():
+    from pyscf import gto, scf
+
+    # PySCF (reference library) itself cannot place two alpha electrons in He/STO-3G's single orbital
+    mol = gto.M(atom="He 0 0 0", basis="sto-3g", spin=2, verbose=0)
+    with pytest.raises(RuntimeError, match="mo_occ"):
+        scf.ROHF(mol).kernel()
+    with pytest.raises(gk.MultiplicityError, match=r"2 alpha electrons .* 1 spatial orbital.* at most 1"):
+        gk.MoleculeSpec(symbols=("He",), coordinates=((0, 0, 0),), multiplicity=3)
+    # in cc-pVDZ (5 orbitals, PySCF's count) the triplet is possible
+    assert gk.MoleculeSpec(symbols=("He",), coordinates=((0, 0, 0),), multiplicity=3, basis="cc-pvdz").n_unpaired == 2
+
+
+def test_more_electrons_than_spin_orbitals_is_refused_with_the_possible_charge():
+    from pyscf import gto, scf
+
+    mol = gto.M(atom="H 0 0 0; H 0 0 0.74", basis="sto-3g", charge=-4, spin=0, verbose=0)
+    with pytest.raises(RuntimeError, match="mo_occ"):  # PySCF (reference library) fails deep inside
+        scf.RHF(mol).kernel()
+    with pytest.raises(gk.ChargeError, match=r"charge -4 leaves 6 electrons .* 2 spatial orbitals \(4 spin "
+                                             r"orbitals\); the charge must be at least -2"):
+        gk.MoleculeSpec(**H2, charge=-4)
+    assert gk.MoleculeSpec(**H2, charge=-2).n_electrons == 4  # 4 electrons fill the 4 spin orbitals
+
+
+def test_open_shell_that_overfills_alpha_orbitals():
+    # Li in STO-3G has 5 orbitals; a sextet (5 unpaired of 3 electrons) is impossible by parity, a quartet fits
+    assert gk.MoleculeSpec(symbols=("Li",), coordinates=((0, 0, 0),), multiplicity=4).n_unpaired == 3
+    # Li- (4 electrons) as a quintet needs 4 alpha electrons: fits 5 orbitals; Li 3- (6 e) septet needs 6 > 5
+    with pytest.raises(gk.MultiplicityError, match="at most 5 fit"):
+        gk.MoleculeSpec(symbols=("Li",), coordinates=((0, 0, 0),), charge=-3, multiplicity=7)
+
+
+@pytest.mark.parametrize("far", [1e6, 1e300, 1e308])
+def test_absurd_coordinates_are_refused_with_the_value(far):
+    with pytest.raises(gk.GeometryError, match=r"within ±1000 Å"):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, far)))
+
+
+def test_molecule_extent_is_bounded_but_a_dissociation_limit_is_fine():
+    fragments = gk.MoleculeSpec(symbols=("H", "H", "H", "H"),
+                                coordinates=((0, 0, 0), (0, 0, 0.74), (50, 0, 0), (50, 0, 0.74)))
+    assert fragments.distance(0, 2) == pytest.approx(50.0)
+    with pytest.raises(gk.GeometryError, match=r"atoms 0 \(H\) and 1 \(H\) are 150 Å apart; .* at most 100 Å"):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((-75, 0, 0), (75, 0, 0)))
+    with pytest.raises(gk.GeometryError, match="within ±1000 Å"):  # 1e6 bohr is still absurd
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 1e6)), unit="bohr")
+
+
+def test_coordinates_too_large_for_a_float_are_a_geometry_error():
+    with pytest.raises(gk.GeometryError, match="not three numbers"):
+        gk.MoleculeSpec(symbols=("H", "H"), coordinates=((0, 0, 0), (0, 0, 10**400)))
+
+
+def test_xyz_from_a_binary_file_a_directory_or_a_missing_file(tmp_path):
+    binary = tmp_path / "image.xyz"
+    binary.write_bytes(bytes(range(256)))
+    for given in (binary, str(binary)):
+        with pytest.raises(gk.XYZFormatError, match=r"is not UTF-8 text \(byte 0x80 at offset 128\)"):
+            gk.MoleculeSpec.from_xyz(given)
+    nul = tmp_path / "nul.xyz"
+    nul.write_bytes(b"H 0 0 0\x00\x00")
+    with pytest.raises(gk.XYZFormatError, match="NUL bytes"):
+        gk.MoleculeSpec.from_xyz(nul)
+    for given in (tmp_path, str(tmp_path)):
+        with pytest.raises(gk.XYZFormatError, match="is a directory"):
+            gk.MoleculeSpec.from_xyz(given)
+    with pytest.raises(gk.XYZFormatError, match="cannot read XYZ file .*missing.xyz.*No such file"):
+        gk.MoleculeSpec.from_xyz(tmp_path / "missing.xyz")
+    with pytest.raises(gk.XYZFormatError, match="cannot read XYZ file"):
+        gk.MoleculeSpec.from_xyz(str(tmp_path / "missing.xyz"))
+    with pytest.raises(gk.XYZFormatError, match="takes XYZ text, bytes or a path"):
+        gk.MoleculeSpec.from_xyz(42)
+
+
+def test_xyz_from_bytes_and_an_unreadable_file(tmp_path):
+    import os
+
+    assert gk.MoleculeSpec.from_xyz(b"H 0 0 0\nH 0 0 0.74\n") == gk.MoleculeSpec(**H2)
+    locked = tmp_path / "locked.xyz"
+    locked.write_text("H 0 0 0\nH 0 0 0.74\n")
+    locked.chmod(0)
+    try:
+        if os.access(locked, os.R_OK):  # running as root: permissions do not stop reading
+            pytest.skip("this user can read a file of mode 000")
+        with pytest.raises(gk.XYZFormatError, match="Permission denied"):
+            gk.MoleculeSpec.from_xyz(locked)
+    finally:
+        locked.chmod(0o600)

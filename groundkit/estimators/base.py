@@ -12,6 +12,8 @@ from typing import Any
 
 import numpy as np
 
+from ..errors import ComponentError
+
 
 class Measurement(ABC):
     """An estimator bound to one pipeline's objective."""
@@ -29,10 +31,15 @@ class Measurement(ABC):
 
     def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
         """(energy, gradient in Ha/rad); only when ``provides_gradient``."""
-        from ..errors import ComponentError
-
         raise ComponentError(f"{type(self).__name__} gives no gradients; use a gradient-free minimiser (COBYLA, "
                              "Nelder-Mead, SPSA)")
+
+
+def check_seed(owner: str, seed: object) -> None:
+    """``seed`` must be None or an integer >= 0 (what ``numpy.random.default_rng`` accepts); ComponentError else."""
+    if seed is not None and (isinstance(seed, (bool, np.bool_)) or not isinstance(seed, (int, np.integer))
+                             or seed < 0):
+        raise ComponentError(f"{owner}(seed={seed!r}): seed must be None or an integer >= 0")
 
 
 def central_differences(energy: Any, theta: np.ndarray, step: float) -> np.ndarray:

@@ -17,7 +17,7 @@ import numpy as np
 from openfermion import QubitOperator, get_sparse_operator
 
 from ..errors import ComponentError, SizeLimitError
-from .base import Estimator, Measurement, central_differences
+from .base import Estimator, Measurement, central_differences, check_seed
 from .groups import measurement_groups, sample_group
 from .sampled import allocate
 
@@ -46,7 +46,9 @@ class NoisyEstimator(Estimator):
         if self.shots is not None and (isinstance(self.shots, bool) or not isinstance(self.shots, (int, np.integer))
                                        or self.shots <= 0):
             raise ComponentError(f"shots={self.shots!r} must be a positive integer or None (exact expectation)")
-        if not (isinstance(self.gradient_step, (int, float)) and 0 < self.gradient_step < np.pi):
+        check_seed("NoisyEstimator", self.seed)
+        if isinstance(self.gradient_step, bool) or not (isinstance(self.gradient_step, (int, float))
+                                                         and 0 < self.gradient_step < np.pi):
             raise ComponentError(f"gradient_step={self.gradient_step!r} must lie in (0, pi) radians")
 
     def measure(self, objective: Any, encoding: Any = None) -> NoisyMeasurement:

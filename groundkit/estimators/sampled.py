@@ -16,7 +16,7 @@ import numpy as np
 
 from ..energy_surface import EnergySurface
 from ..errors import ComponentError
-from .base import Estimator, Measurement, central_differences
+from .base import Estimator, Measurement, central_differences, check_seed
 from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities, sample_group
 
 ALLOCATIONS = ("uniform", "variance")
@@ -69,9 +69,9 @@ class SampledEstimator(Estimator):
             raise ComponentError(f"unknown grouping {self.grouping!r}; accepted: {', '.join(GROUPINGS)}")
         if self.allocation not in ALLOCATIONS:
             raise ComponentError(f"unknown allocation {self.allocation!r}; accepted: {', '.join(ALLOCATIONS)}")
-        if self.seed is not None and (isinstance(self.seed, bool) or not isinstance(self.seed, (int, np.integer))):
-            raise ComponentError(f"seed={self.seed!r} must be an integer or None")
-        if not (isinstance(self.gradient_step, (int, float)) and 0 < self.gradient_step < np.pi):
+        check_seed("SampledEstimator", self.seed)
+        if isinstance(self.gradient_step, bool) or not (isinstance(self.gradient_step, (int, float))
+                                                         and 0 < self.gradient_step < np.pi):
             raise ComponentError(f"gradient_step={self.gradient_step!r} must lie in (0, pi) radians")
 
     def measure(self, objective: Any, encoding: Any = None) -> SampledMeasurement:

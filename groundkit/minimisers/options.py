@@ -9,7 +9,12 @@ from groundkit.errors import ComponentError
 
 
 def _is_real(value: object) -> bool:
-    return isinstance(value, Real) and not isinstance(value, bool) and math.isfinite(float(value))
+    if not isinstance(value, Real) or isinstance(value, bool):
+        return False
+    try:
+        return math.isfinite(float(value))
+    except OverflowError:  # an integer beyond the float range
+        return False
 
 
 def check_count(owner: str, name: str, value: object, low: int = 1) -> None:
@@ -65,7 +70,7 @@ def check_bounds(owner: str, value: object) -> None:
     if value is None:
         return
     ok = isinstance(value, tuple) and len(value) == 2 and all(
-        isinstance(v, Real) and not isinstance(v, bool) and not math.isnan(float(v)) for v in value
+        _is_real(v) or (isinstance(v, float) and math.isinf(v)) for v in value
     )
     if not ok or not float(value[0]) < float(value[1]):  # type: ignore[index]
         raise ComponentError(

@@ -52,8 +52,11 @@ class HardwareEfficient(QubitTrialState):
         owner = "HardwareEfficient"
         if isinstance(self.layers, bool) or not isinstance(self.layers, int) or not 0 <= self.layers <= 64:
             raise ComponentError(f"{owner}(layers={self.layers!r}): layers must be an integer from 0 to 64")
-        rotations = (self.rotations,) if isinstance(self.rotations, str) else tuple(self.rotations)
-        if not rotations or any(r not in ROTATIONS for r in rotations):
+        try:
+            rotations = (self.rotations,) if isinstance(self.rotations, str) else tuple(self.rotations)
+        except TypeError:
+            rotations = ()
+        if not rotations or any(not isinstance(r, str) or r not in ROTATIONS for r in rotations):
             raise ComponentError(
                 f"{owner}(rotations={self.rotations!r}): give one or more of {', '.join(map(repr, ROTATIONS))}"
             )

@@ -8,6 +8,7 @@ from typing import TYPE_CHECKING, Any
 
 from groundkit import components as _c
 from groundkit.persistence import result_from_dict
+from groundkit.sizing import check_study
 
 from .errors import ScanInputError
 from .executors import run_chains, runner_for
@@ -27,6 +28,17 @@ def _options(name: str, given: Sequence[Any] | None, convert: Any, own: Any) -> 
     if not given:
         raise ScanInputError(f"{name} is empty; give at least one, or leave it out to keep the pipeline's own")
     return [convert(g) for g in given]
+
+
+def _variant(pipeline: Pipeline, combination: tuple) -> Pipeline:
+    """The pipeline with one grid combination's components (None keeps the pipeline's default)."""
+    mapping, trial_state, estimator, minimiser = combination
+    out = pipeline
+    for method, component in ((out.mapping, mapping), (out.trial_state, trial_state), (out.estimator, estimator),
+                              (out.minimiser, minimiser)):
+        if component is not None:
+            out = getattr(out, method.__name__)(component)
+    return out
 
 
 def compare(
@@ -65,6 +77,7 @@ def compare(
         _options("estimators", estimators, _c.as_estimator, own["estimator"]),
         _options("minimisers", minimisers, _c.as_minimiser, own["minimiser"]),
     ))
+    check_study([_variant(pipeline, combination) for combination in grid], "this comparison grid")
     answers: dict[int, dict] = {}
 
     def make_task(index: int, _previous: dict | None) -> Task:

@@ -19,6 +19,7 @@ from typing import Any
 
 from groundkit.molecule import MoleculeSpec
 from groundkit.persistence import result_from_dict
+from groundkit.sizing import check_study
 
 from .checkpoint import CheckpointStore
 from .errors import ScanInputError
@@ -108,6 +109,7 @@ def run_scan(
     numbers_ = scan_values(values)
     chains = chains_for(len(numbers_), warm_start)
     built = build_molecules(geometry, numbers_)
+    check_study([pipeline.molecule(m) for m, _ in built if m is not None], "this scan")  # size cap, before any SCF
     components = components_of(pipeline)
     resolved = pipeline.resolved_components()
     configuration = {role: repr(resolved[role]) for role in ROLES}
