@@ -16,7 +16,7 @@ from typing import Any
 from groundkit.errors import ResultFileError
 
 from .errors import CheckpointError
-from .scan_persistence import point_from_dict, point_to_dict, read_json, write_json_atomic
+from .scan_persistence import point_to_dict, read_manifest, read_point_file, write_json_atomic
 from .scan_result import ScanPoint
 
 MANIFEST = "manifest.json"
@@ -56,14 +56,9 @@ class CheckpointStore:
                                "description": self.description}, path)
             return
         try:
-            manifest = read_json(path, "a groundkit checkpoint manifest")
+            manifest = read_manifest(path)  # schema name, version and every field validated
         except ResultFileError as err:
             raise CheckpointError(str(err)) from None
-        if not isinstance(manifest, dict) or manifest.get("schema") != MANIFEST_SCHEMA:
-            raise CheckpointError(f"{path}: not a groundkit checkpoint manifest (schema {MANIFEST_SCHEMA!r})")
-        if manifest.get("version") != VERSION:
-            raise CheckpointError(f"{path}: checkpoint version {manifest.get('version')!r}; this groundkit reads "
-                                  f"{VERSION}")
         if manifest.get("fingerprint") != self.fingerprint:
             raise CheckpointError(
                 f"checkpoint directory {self.directory!r} belongs to another scan configuration "
@@ -84,13 +79,9 @@ class CheckpointStore:
                 continue
             if not (name.startswith("point-") and name.endswith(".json")):
                 continue
-            data = read_json(path, "a groundkit scan point")
-            if not isinstance(data, dict) or data.get("schema") != POINT_SCHEMA or data.get("version") != VERSION:
-                raise CheckpointError(f"{path}: not a groundkit scan point (schema {POINT_SCHEMA!r}, version "
-                                      f"{VERSION})")
-            if data.get("fingerprint") != self.fingerprint:
+            data, point = read_point_file(path, self.description, self.fingerprint)  # validated, and of this scan
+            if data["fingerprint"] != self.fingerprint:
                 raise CheckpointError(f"{path}: written by another scan configuration; this directory is mixed")
-            point = point_from_dict(data.get("point"), path)
             out[point.index] = point
         return out
 
