@@ -14,7 +14,6 @@ from functools import cache
 from typing import Any
 
 import groundkit as gk
-from groundkit.studies.scan_persistence import read_point_file, scan_to_dict
 
 SCAN_VALUES = (0.7, 0.8, 0.9)
 
@@ -78,6 +77,8 @@ def write(path: Any, data: Any) -> Any:
 
 def scan_dict(scan: gk.ScanResult) -> dict:
     """Comparable form of a scan (ScanResult compares by identity)."""
+    from groundkit.studies.scan_persistence import scan_to_dict
+
     return scan_to_dict(scan)
 
 
@@ -94,7 +95,7 @@ def reload_equal(kind: str, path: Any, folder: Any) -> bool:
         first.save(again)
         return scan_dict(gk.load_scan(again)) == scan_dict(first)
     from groundkit.persistence import write_json_atomic
-    from groundkit.studies.scan_persistence import point_to_dict
+    from groundkit.studies.scan_persistence import point_to_dict, read_point_file
 
     data, point = read_point_file(path)
     write_json_atomic({**data, "point": point_to_dict(point)}, again)
