@@ -52,7 +52,7 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
 def write_json_atomic(data: Any, path: str | os.PathLike) -> None:
     """Write ``data`` as JSON via a temporary file in the same folder, flushed to disk, then renamed over
     ``path``: a crash never leaves half a file under the final name."""
-    text = json.dumps(data, indent=1, allow_nan=False, default=jsonable)
+    text = json.dumps(data, indent=1, allow_nan=False, default=_jsonable)
     folder = os.path.dirname(os.path.abspath(path))
     fd, tmp = tempfile.mkstemp(prefix=".groundkit-", suffix=".tmp", dir=folder)
     try:
@@ -152,10 +152,13 @@ def _growth_step(step: dict[str, Any]) -> dict[str, Any]:
     return out
 
 
-def jsonable(value: Any) -> Any:
-    """JSON form of NumPy values; the repr of anything else JSON cannot hold."""
+def _jsonable(value: Any) -> Any:
     if isinstance(value, np.generic):
         return value.item()
     if isinstance(value, np.ndarray):
         return value.tolist()
     return repr(value)
+
+
+jsonable = _jsonable
+"""JSON form of NumPy values; the repr of anything else JSON cannot hold (the writer's ``default``)."""
