@@ -125,3 +125,19 @@ class CheckpointWarning(UserWarning):
 
 class ExcludedPointsWarning(UserWarning):
     """Scan points left out of a curve fit because their minimisation did not converge."""
+
+
+class ResultFieldError(ResultFileError):
+    """A field of a result, scan or checkpoint file that fails validation.
+
+    ``source`` is the file, ``path`` the field (e.g. ``history.energies[3]``), ``value`` a short form of what was
+    found (None when the field is missing) and ``expected`` what is accepted there.
+    """
+
+    def __init__(self, source: str, path: str, value: str | None, expected: str) -> None:
+        self.source, self.path, self.value, self.expected = source, path, value, expected
+        found = "is missing" if value is None else f"is {value}"
+        super().__init__(f"{source}: {path} {found}; expected {expected}")
+
+    def __reduce__(self) -> tuple:
+        return (type(self), (self.source, self.path, self.value, self.expected))

@@ -1,25 +1,25 @@
 """Saving and loading results as JSON: a schema name and version, strict validation, atomic writes.
 
-Loading parses JSON and checks every field's type; it never executes anything (no pickle).
+Loading parses JSON strictly and validates it against the JSON Schema document
+:data:`groundkit.file_schemas.RUN_RESULT` plus the checks of :mod:`groundkit.file_checks`; it never executes
+anything (no pickle). Every refusal is a ``ResultFileError`` naming the file, the field and what is accepted.
 """
 
 from __future__ import annotations
 
 import json
-import math
 import os
-import re
 import tempfile
 from dataclasses import asdict
 from typing import Any
 
 import numpy as np
 
-from .errors import ResultFileError
+from . import file_checks, file_reading, file_schemas
 from .result import History, ReferenceRecord, Resources, RunResult
 
-SCHEMA = "groundkit.run-result"
-VERSION = 1
+SCHEMA = file_schemas.RUN_RESULT_NAME
+VERSION = file_schemas.VERSION
 
 
 def result_to_dict(result: RunResult) -> dict[str, Any]:
@@ -86,17 +86,10 @@ def process_umask() -> int:
 
 
 def read_json(path: str | os.PathLike, expected: str) -> Any:
-    """Parsed JSON of ``path``; ``ResultFileError`` naming ``expected`` when the file is not readable JSON."""
-    try:
-        with open(path, encoding="utf-8") as fh:
-            return json.load(fh)
-    except UnicodeDecodeError:
-        raise ResultFileError(f"{path}: not a text file; expected {expected} (JSON)") from None
-    except json.JSONDecodeError as err:
-        raise ResultFileError(
-            f"{path}: not valid JSON ({err.msg} at line {err.lineno}, column {err.colno}); the file may be "
-            f"truncated. Expected {expected}"
-        ) from None
+    """Parsed JSON of ``path``; ``ResultFileError`` naming ``expected`` when the file is not readable JSON. Tokens
+    no groundkit file may hold (NaN, Infinity, 1e400, repeated keys) are kept for validation to name
+    (see :func:`groundkit.file_reading.parse`)."""
+    return file_reading.read_json(path, expected)
 
 
 def save_result(result: RunResult, path: str | os.PathLike) -> None:
@@ -105,147 +98,76 @@ def save_result(result: RunResult, path: str | os.PathLike) -> None:
 
 
 def load_result(path: str | os.PathLike) -> RunResult:
-    """Read a result saved by :meth:`RunResult.save`; ``ResultFileError`` for anything else."""
-    return result_from_dict(read_json(path, "a groundkit result saved by RunResult.save"), source=str(path))
+    """Read a result saved by :meth:`RunResult.save`; ``ResultFileError`` for anything else, naming the field and
+    what is accepted (the schema is :data:`groundkit.file_schemas.RUN_RESULT`)."""
+    data = read_json(path, "a groundkit result saved by RunResult.save")
+    return result_from_dict(data, source=str(path), parsed=True)
 
 
-def check_schema(data: Any, schema: str, version: int, source: str, kind: str) -> None:
-    """``ResultFileError`` unless ``data`` is a dict carrying ``schema`` and ``version``; ``kind`` names the
-    expected content in the message ('result', 'scan')."""
-    if not isinstance(data, dict) or "schema" not in data:
-        raise ResultFileError(f"{source}: no 'schema' field; expected a groundkit {kind} with schema {schema!r}")
-    if data["schema"] != schema:
-        raise ResultFileError(f"{source}: schema {data['schema']!r} is not {schema!r}")
-    if data.get("version") != version:
-        raise ResultFileError(f"{source}: schema version {data.get('version')!r}; this groundkit reads {version}")
+def result_from_dict(data: Any, source: str = "data", parsed: bool = False) -> RunResult:
+    """Validate and rebuild a RunResult from :func:`result_to_dict` output (a dict in memory, or a file's JSON when
+    ``parsed``); ``ResultFileError`` naming the field and what is accepted."""
+    if not parsed:
+        data = file_reading.as_json(data)
+    file_reading.validate(data, SCHEMA, source, (file_checks.result_faults,))
+    return build_result(data)
 
 
-def result_from_dict(data: Any, source: str = "data") -> RunResult:
-    """Validate and rebuild a RunResult from :func:`result_to_dict` output."""
-    check_schema(data, SCHEMA, VERSION, source, "result")
-    v = _Validator(source)
-    history = v.obj(data, "history", dict)
-    reference = v.obj(data, "reference", dict)
-    resources = v.obj(data, "resources", dict)
+def build_result(data: dict[str, Any]) -> RunResult:
+    """A RunResult from a dict that passed validation (:data:`groundkit.file_schemas.RUN_RESULT` and
+    :func:`groundkit.file_checks.result_faults`)."""
+    history, reference, resources = data["history"], data["reference"], data["resources"]
     return RunResult(
-        energy=v.number(data, "energy"),
-        standard_error=v.number(data, "standard_error"),
-        exact_energy=None if data.get("exact_energy") is None else v.number(data, "exact_energy"),
-        parameters=np.array(v.numbers(data, "parameters"), dtype=float),
-        parameter_labels=tuple(v.strings(data, "parameter_labels")),
+        energy=float(data["energy"]),
+        standard_error=float(data["standard_error"]),
+        exact_energy=_float_or_none(data.get("exact_energy")),
+        parameters=np.array(data["parameters"], dtype=float),
+        parameter_labels=tuple(data["parameter_labels"]),
         history=History(
-            energies=tuple(v.numbers(history, "energies")),
-            gradient_norms=tuple(v.numbers(history, "gradient_norms", nullable=True)),
-            wall_times=tuple(v.numbers(history, "wall_times")),
-            evaluations=tuple(int(x) for x in v.numbers(history, "evaluations")),
+            energies=tuple(float(x) for x in history["energies"]),
+            gradient_norms=tuple(_float_or_none(x) for x in history["gradient_norms"]),
+            wall_times=tuple(float(x) for x in history["wall_times"]),
+            evaluations=tuple(int(x) for x in history["evaluations"]),
         ),
-        converged=v.obj(data, "converged", bool),
-        stop_reason=v.obj(data, "stop_reason", str),
+        converged=data["converged"],
+        stop_reason=data["stop_reason"],
         reference=ReferenceRecord(
-            energy=v.number(reference, "energy"),
-            multiplicity=int(v.number(reference, "multiplicity")),
-            spin_square=v.number(reference, "spin_square"),
-            amplitudes=v.number_map(reference, "amplitudes"),
-            method=v.obj(reference, "method", str),
+            energy=float(reference["energy"]),
+            multiplicity=int(reference["multiplicity"]),
+            spin_square=float(reference["spin_square"]),
+            amplitudes={k: float(v) for k, v in reference["amplitudes"].items()},
+            method=reference["method"],
         ),
-        baselines=v.number_map(data, "baselines", nullable=True),
-        amplitudes=v.number_map(data, "amplitudes"),
-        fidelity=v.number(data, "fidelity"),
-        spin_square=v.number(data, "spin_square"),
-        particle_number=v.number(data, "particle_number"),
-        resources=Resources(**{k: (None if resources.get(k) is None else int(v.number(resources, k)))
-                               for k in ("qubits", "parameters", "pauli_terms", "measurement_groups",
-                                         "two_qubit_gates", "depth")}),
-        provenance=v.obj(data, "provenance", dict),
-        growth=tuple(v.growth(data)) if "growth" in data else (),  # files written before adaptive runs have none
+        baselines={k: _float_or_none(v) for k, v in data["baselines"].items()},
+        amplitudes={k: float(v) for k, v in data["amplitudes"].items()},
+        fidelity=float(data["fidelity"]),
+        spin_square=float(data["spin_square"]),
+        particle_number=float(data["particle_number"]),
+        resources=Resources(**{k: None if resources[k] is None else int(resources[k]) for k in RESOURCE_FIELDS}),
+        provenance=data["provenance"],
+        growth=tuple(_growth_step(step) for step in data.get("growth", ())),  # absent before adaptive runs
         # files written before the baseline checks have neither
-        suspect_baselines=v.string_map(data, "suspect_baselines") if "suspect_baselines" in data else {},
-        baseline_notes=v.string_map(data, "baseline_notes") if "baseline_notes" in data else {},
+        suspect_baselines=dict(data.get("suspect_baselines", {})),
+        baseline_notes=dict(data.get("baseline_notes", {})),
     )
 
 
-class _Validator:
-    def __init__(self, source: str) -> None:
-        self.source = source
-
-    def fail(self, key: str, expected: str, value: Any) -> ResultFileError:
-        shown = repr(value)
-        shown = shown if len(shown) < 60 else shown[:57] + "..."
-        return ResultFileError(f"{self.source}: field {key!r} is {shown}; expected {expected}")
-
-    def obj(self, data: dict, key: str, kind: type) -> Any:
-        if key not in data:
-            raise ResultFileError(f"{self.source}: field {key!r} is missing; the file is not a complete result")
-        value = data[key]
-        if not isinstance(value, kind):
-            raise self.fail(key, kind.__name__, value)
-        return value
-
-    def number(self, data: dict, key: str) -> float:
-        value = data.get(key)
-        if isinstance(value, bool) or not isinstance(value, (int, float)) or not math.isfinite(value):
-            raise self.fail(key, "a finite number", value)
-        return float(value)
-
-    def numbers(self, data: dict, key: str, nullable: bool = False) -> list:
-        values = self.obj(data, key, list)
-        out = []
-        for x in values:
-            if x is None and nullable:
-                out.append(None)
-            elif isinstance(x, bool) or not isinstance(x, (int, float)):
-                raise self.fail(key, "a list of numbers", values)
-            else:
-                out.append(x)
-        return out
-
-    def growth(self, data: dict) -> list[dict]:
-        """Growth records: objects whose values are numbers, strings, booleans or null, and whose ``operators`` is a
-        list of excitations ``[[creators], [annihilators]]`` or Pauli-string labels such as ``"X0 Y2 X3"``."""
-        steps = self.obj(data, "growth", list)
-        for k, step in enumerate(steps):
-            if not isinstance(step, dict):
-                raise self.fail(f"growth[{k}]", "an object", step)
-            for name, value in step.items():
-                if value is None or isinstance(value, (bool, int, float, str)):
-                    continue
-                if name == "operators" and isinstance(value, list) and all(_grown_operator(op) for op in value):
-                    continue
-                raise self.fail(f"growth[{k}].{name}", "a number, string, boolean, null or operator list", value)
-        return [dict(step) for step in steps]
-
-    def strings(self, data: dict, key: str) -> list[str]:
-        values = self.obj(data, key, list)
-        if not all(isinstance(x, str) for x in values):
-            raise self.fail(key, "a list of strings", values)
-        return values
-
-    def string_map(self, data: dict, key: str) -> dict[str, str]:
-        values = self.obj(data, key, dict)
-        for k, x in values.items():
-            if not isinstance(x, str):
-                raise self.fail(f"{key}.{k}", "a string", x)
-        return dict(values)
-
-    def number_map(self, data: dict, key: str, nullable: bool = False) -> dict:
-        values = self.obj(data, key, dict)
-        for k, x in values.items():
-            if x is None and nullable:
-                continue
-            if isinstance(x, bool) or not isinstance(x, (int, float)):
-                raise self.fail(f"{key}.{k}", "a number", x)
-        return dict(values)
+RESOURCE_FIELDS = ("qubits", "parameters", "pauli_terms", "measurement_groups", "two_qubit_gates", "depth")
+_FLOAT_FIELDS = ("gradient", "gradient_norm", "energy", "error", "wall_time")
 
 
-_PAULI_LABEL = re.compile(r"[XYZ]\d+( [XYZ]\d+)*")
+def _float_or_none(value: Any) -> float | None:
+    return None if value is None else float(value)
 
 
-def _grown_operator(op: Any) -> bool:
-    """A growth record's operator: ``[[ints], [ints]]`` (an excitation) or a Pauli-string label ("X0 Y2 X3")."""
-    if isinstance(op, str):
-        return _PAULI_LABEL.fullmatch(op) is not None
-    return isinstance(op, list) and len(op) == 2 and all(
-        isinstance(part, list) and all(isinstance(i, int) and not isinstance(i, bool) for i in part) for part in op)
+def _growth_step(step: dict[str, Any]) -> dict[str, Any]:
+    """A growth record with whole numbers as ints and energies as floats (as ``GrowthStep.to_dict`` writes them)."""
+    out = dict(step)
+    for name in ("step", "parameters", "iterations", "two_qubit_gates"):
+        out[name] = None if out[name] is None else int(out[name])
+    for name in _FLOAT_FIELDS:
+        out[name] = _float_or_none(out[name])
+    return out
 
 
 def _jsonable(value: Any) -> Any:
@@ -254,3 +176,7 @@ def _jsonable(value: Any) -> Any:
     if isinstance(value, np.ndarray):
         return value.tolist()
     return repr(value)
+
+
+jsonable = _jsonable
+"""JSON form of NumPy values; the repr of anything else JSON cannot hold (the writer's ``default``)."""

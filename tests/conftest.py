@@ -7,6 +7,7 @@ import math
 import pytest
 
 import groundkit as gk
+from tests.file_round_trip import _saved_files_round_trip, pytest_terminal_summary  # noqa: F401 (every saved file)
 
 
 def water(basis: str = "sto-3g") -> gk.MoleculeSpec:

@@ -28,10 +28,12 @@ import socket
 import warnings
 from typing import Any
 
+from groundkit import file_schemas
 from groundkit.errors import CheckpointBusyError, CheckpointWarning, ResultFileError
+from groundkit.file_reading import path_text, plain_fault, shown
 
 from .errors import CheckpointError
-from .scan_persistence import point_from_dict, point_to_dict, read_json, write_json_atomic
+from .scan_persistence import point_from_dict, point_to_dict, read_json, read_manifest, write_json_atomic
 from .scan_result import ScanPoint
 from .work import INTERRUPTED
 
@@ -40,7 +42,7 @@ LOCK = ".groundkit-lock"
 SET_ASIDE = "set-aside"
 MANIFEST_SCHEMA = "groundkit.scan-checkpoint"
 POINT_SCHEMA = "groundkit.scan-point"
-VERSION = 2
+VERSION = file_schemas.CHECKPOINT_VERSION
 
 
 def fingerprint(description: dict[str, Any]) -> str:
@@ -134,7 +136,7 @@ class CheckpointStore:
                                "description": self.description}, path)
             return
         try:
-            manifest = read_json(path, "a groundkit checkpoint manifest")
+            manifest = read_manifest(path)  # schema name, version and every field validated
         except ResultFileError as err:
             raise CheckpointError(str(err)) from None
         if not isinstance(manifest, dict) or manifest.get("schema") != MANIFEST_SCHEMA:
@@ -190,10 +192,11 @@ class CheckpointStore:
         if data.get("fingerprint") != self.fingerprint:
             return None, "written by another scan configuration (its fingerprint differs from the manifest's)"
         record = data.get("point")
-        try:
-            checksum = content_checksum(data["fingerprint"], record)
-        except ValueError:
-            return None, "holds NaN or infinity, which groundkit never writes"
+        unreadable = plain_fault(record)
+        if unreadable is not None:  # NaN, infinity, out-of-range numbers or over-deep nesting
+            return None, (f"holds NaN or infinity, which groundkit never writes (point."
+                          f"{path_text(unreadable.path)} is {shown(unreadable.value)})")
+        checksum = content_checksum(data["fingerprint"], record)
         if data.get("checksum") != checksum:
             return None, ("its checksum does not match its content (edited or damaged after it was written)"
                           if "checksum" in data else "it has no checksum (not written by this groundkit)")

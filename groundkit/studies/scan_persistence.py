@@ -1,19 +1,22 @@
-"""Scans as JSON: schema name and version, validation on load, atomic writes; nothing is executed on load."""
+"""Scans and checkpoint files as JSON: schema name and version, validation on load against the JSON Schema documents
+of :mod:`groundkit.file_schemas` (and :mod:`groundkit.file_checks`), atomic writes; nothing is executed on load."""
 
 from __future__ import annotations
 
-import math
 import os
+import re
 from typing import Any
 
-from groundkit.errors import GroundkitError, ResultFileError
+from groundkit import file_checks, file_schemas
+from groundkit.errors import BasisError, ChargeError, ElementError, GeometryError, GroundkitError, MultiplicityError
+from groundkit.file_reading import FieldFault, Path, as_json, plain_fault, schema_fault, validate
 from groundkit.molecule import MoleculeSpec
-from groundkit.persistence import check_schema, read_json, result_from_dict, result_to_dict, write_json_atomic
+from groundkit.persistence import build_result, read_json, result_to_dict, write_json_atomic
 
 from .scan_result import ScanPoint, ScanResult
 
-SCHEMA = "groundkit.scan-result"
-VERSION = 1
+SCHEMA = file_schemas.SCAN_NAME
+VERSION = file_schemas.VERSION
 
 
 def molecule_to_dict(molecule: MoleculeSpec) -> dict[str, Any]:
@@ -22,14 +25,26 @@ def molecule_to_dict(molecule: MoleculeSpec) -> dict[str, Any]:
             "unit": molecule.unit, "name": molecule.name}
 
 
-def molecule_from_dict(data: Any, source: str) -> MoleculeSpec:
-    keys = ("symbols", "coordinates", "charge", "multiplicity", "basis", "unit", "name")
-    if not isinstance(data, dict) or set(data) != set(keys):
-        raise ResultFileError(f"{source}: molecule {str(data)[:60]!r} is not a molecule record with keys {keys}")
+def molecule_from_dict(data: Any, source: str, at: Path = ("molecule",)) -> MoleculeSpec:
+    """The MoleculeSpec of a molecule record (JSON that passed the schema's ``molecule`` definition); the
+    molecule's own checks (elements, distances, charge and spin, basis) become a ``ResultFileError`` naming the
+    field ``at`` + the offending key."""
+    if not isinstance(data, dict):
+        raise FieldFault(at, data, "a molecule record").error(source)
     try:
         return MoleculeSpec(**data)
-    except (GroundkitError, TypeError) as err:
-        raise ResultFileError(f"{source}: the stored molecule is not valid ({err})") from None
+    except GroundkitError as err:
+        key = next((k for kind, k in _MOLECULE_FIELDS if isinstance(err, kind)), None)
+        path = at if key is None or key not in data else (*at, key)
+        raise FieldFault(path, data if key is None or key not in data else data[key],
+                         f"a valid molecule ({type(err).__name__}: {err})").error(source) from None
+    except (TypeError, KeyError):
+        raise FieldFault(at, data, "a molecule record (symbols, coordinates, charge, multiplicity, basis, unit, "
+                                   "name)").error(source) from None
+
+
+_MOLECULE_FIELDS = ((ElementError, "symbols"), (BasisError, "basis"), (ChargeError, "charge"),
+                    (MultiplicityError, "multiplicity"), (GeometryError, "coordinates"))
 
 
 def point_to_dict(point: ScanPoint) -> dict[str, Any]:
@@ -48,39 +63,29 @@ def point_to_dict(point: ScanPoint) -> dict[str, Any]:
 
 
 def point_from_dict(data: Any, source: str) -> ScanPoint:
-    if not isinstance(data, dict):
-        raise ResultFileError(f"{source}: a scan point is {str(data)[:60]!r}; expected a JSON object")
+    """Validate and rebuild one scan point (:func:`point_to_dict` output, in memory)."""
+    data = as_json(data)
+    fault = plain_fault(data) or schema_fault(data, "scan_point")
+    fault = fault or next(file_checks.point_faults(data, ()), None)
+    if fault is not None:
+        raise fault.error(source)
+    return build_point(data, source, ())
 
-    def get(key: str, kinds: tuple, nullable: bool = False) -> Any:
-        if key not in data:
-            raise ResultFileError(f"{source}: scan point field {key!r} is missing")
-        value = data[key]
-        if value is None and nullable:
-            return None
-        if isinstance(value, bool) and bool not in kinds or not isinstance(value, kinds):
-            raise ResultFileError(f"{source}: scan point field {key!r} is {str(value)[:60]!r}; expected "
-                                  f"{' or '.join(k.__name__ for k in kinds)}")
-        if isinstance(value, float) and not math.isfinite(value):
-            raise ResultFileError(f"{source}: scan point field {key!r} is {value!r}; expected a finite number")
-        return value
 
-    molecule = get("molecule", (dict,), nullable=True)
-    result = get("result", (dict,), nullable=True)
-    earlier = data.get("earlier_failures", [])  # absent in files written before retries were recorded
-    if not isinstance(earlier, list) or not all(isinstance(m, str) for m in earlier):
-        raise ResultFileError(f"{source}: scan point field 'earlier_failures' is {str(earlier)[:60]!r}; expected a "
-                              "list of failure messages")
+def build_point(data: dict[str, Any], source: str, at: Path) -> ScanPoint:
+    """The ScanPoint of a point record that passed validation; the molecule is checked by MoleculeSpec itself."""
+    molecule = data["molecule"]
     return ScanPoint(
-        index=int(get("index", (int,))),
-        value=float(get("value", (int, float))),
-        molecule=None if molecule is None else molecule_from_dict(molecule, source),
-        result=None if result is None else result_from_dict(result, source=source),
-        failure=get("failure", (str,), nullable=True),
-        start=get("start", (str,)),
-        orbital_match=get("orbital_match", (int, float), nullable=True),
-        wall_time=float(get("wall_time", (int, float))),
-        handover=get("handover", (dict,), nullable=True),
-        earlier_failures=tuple(earlier),
+        index=int(data["index"]),
+        value=float(data["value"]),
+        molecule=None if molecule is None else molecule_from_dict(molecule, source, (*at, "molecule")),
+        result=None if data["result"] is None else build_result(data["result"]),
+        failure=data["failure"],
+        start=data["start"],
+        orbital_match=None if data["orbital_match"] is None else float(data["orbital_match"]),
+        wall_time=float(data["wall_time"]),
+        handover=data["handover"],
+        earlier_failures=tuple(data.get("earlier_failures", ())),  # absent before retries were recorded
     )
 
 
@@ -89,18 +94,43 @@ def scan_to_dict(scan: ScanResult) -> dict[str, Any]:
             "warm_start": scan.warm_start, "points": [point_to_dict(p) for p in scan.points]}
 
 
-def scan_from_dict(data: Any, source: str = "data") -> ScanResult:
-    check_schema(data, SCHEMA, VERSION, source, "scan")
-    configuration, points = data.get("configuration"), data.get("points")
-    if not isinstance(configuration, dict) or not all(isinstance(v, str) for v in configuration.values()):
-        raise ResultFileError(f"{source}: field 'configuration' is {str(configuration)[:60]!r}; expected strings")
-    if not isinstance(points, list):
-        raise ResultFileError(f"{source}: field 'points' is {str(points)[:60]!r}; expected a list")
-    warm_start = data.get("warm_start")
-    if not isinstance(warm_start, str):
-        raise ResultFileError(f"{source}: field 'warm_start' is {warm_start!r}; expected a string")
-    return ScanResult(points=tuple(point_from_dict(p, source) for p in points), configuration=configuration,
-                      warm_start=warm_start)
+def scan_from_dict(data: Any, source: str = "data", parsed: bool = False) -> ScanResult:
+    """Validate and rebuild a ScanResult from :func:`scan_to_dict` output (in memory, or a file's JSON when
+    ``parsed``); ``ResultFileError`` naming the field and what is accepted."""
+    if not parsed:
+        data = as_json(data)
+    validate(data, SCHEMA, source, (file_checks.scan_faults,))
+    points = tuple(build_point(p, source, ("points", k)) for k, p in enumerate(data["points"]))
+    return ScanResult(points=points, configuration=dict(data["configuration"]), warm_start=data["warm_start"])
+
+
+def read_manifest(path: str | os.PathLike) -> dict[str, Any]:
+    """The validated JSON of a checkpoint's ``manifest.json`` (:data:`groundkit.file_schemas.MANIFEST`)."""
+    data = read_json(path, "a groundkit checkpoint manifest")
+    validate(data, file_schemas.MANIFEST_NAME, str(path))
+    return data
+
+
+def read_point_file(path: str | os.PathLike, description: dict[str, Any] | None = None,
+                    fingerprint: str | None = None) -> tuple[dict[str, Any], ScanPoint]:
+    """(validated JSON, ScanPoint) of a checkpoint point file ``point-NNNNN.json`` (:data:`groundkit.file_schemas.
+    POINT_FILE`): its index is NNNNN. With the scan's ``description`` (as in the manifest) the point's index, value
+    and molecule must be that scan's; that comparison is skipped when the file carries a ``fingerprint`` other than
+    the one given (the caller refuses such a file as belonging to another scan)."""
+    data = read_json(path, "a groundkit scan point")
+    checks: list = [file_checks.point_file_faults]
+    named = _POINT_FILE.fullmatch(os.path.basename(path))
+    if named is not None:
+        checks.append(lambda d: file_checks.index_of_file(d["point"], int(named.group(1)), os.path.basename(path)))
+    if description is not None:
+        scan = as_json(description)
+        checks.append(lambda d: () if fingerprint not in (None, d["fingerprint"])
+                      else file_checks.point_against_scan(d["point"], scan))
+    validate(data, file_schemas.POINT_FILE_NAME, str(path), checks)
+    return data, build_point(data["point"], str(path), ("point",))
+
+
+_POINT_FILE = re.compile(r"point-([0-9]+)\.json")
 
 
 def save_scan(scan: ScanResult, path: str | os.PathLike) -> None:
@@ -109,5 +139,7 @@ def save_scan(scan: ScanResult, path: str | os.PathLike) -> None:
 
 
 def load_scan(path: str | os.PathLike) -> ScanResult:
-    """Read a scan saved by :meth:`ScanResult.save`; ``ResultFileError`` for anything else."""
-    return scan_from_dict(read_json(path, "a groundkit scan saved by ScanResult.save"), source=str(path))
+    """Read a scan saved by :meth:`ScanResult.save`; ``ResultFileError`` for anything else, naming the field and
+    what is accepted (the schema is :data:`groundkit.file_schemas.SCAN`)."""
+    data = read_json(path, "a groundkit scan saved by ScanResult.save")
+    return scan_from_dict(data, source=str(path), parsed=True)
