@@ -12,6 +12,8 @@ from typing import Any
 
 import numpy as np
 
+from ..component import Component
+
 
 class Measurement(ABC):
     """An estimator bound to one pipeline's objective."""
@@ -46,7 +48,7 @@ def central_differences(energy: Any, theta: np.ndarray, step: float) -> np.ndarr
     return gradient
 
 
-class Estimator(ABC):
+class Estimator(Component, role="estimator"):
     """Configuration of how energies are obtained; subclasses are frozen dataclasses of options."""
 
     exact: bool = True
