@@ -237,8 +237,9 @@ class Pair(Constraint):
 
 
 class ComponentOf(Constraint):
-    """A component of ``role`` (an instance of the role's classes), or a name registered for that role, which is
-    built with its default options."""
+    """A component of ``role`` (an instance of the role's classes); a name registered for that role, built with
+    its default options; ``{"name": ..., option: ...}`` (as TOML files write it); or a saved record
+    ``{"role", "name", "options"}``."""
 
     def __init__(self, role: str) -> None:
         self.role = role
@@ -250,6 +251,13 @@ class ComponentOf(Constraint):
 
         if is_component_of(self.role, value):
             return value
+        if isinstance(value, dict) and isinstance(value.get("name"), str):
+            from .component import component_from_dict
+
+            if set(value) == {"role", "name", "options"}:
+                return component_from_dict(value, self.role)
+            options = {k: v for k, v in value.items() if k != "name"}
+            return build(self.role, value["name"], **options)
         if isinstance(value, str):
             keys = role(self.role).keys
             if fold(value) in keys:

@@ -91,6 +91,14 @@ def load_result(path: str | os.PathLike) -> RunResult:
     return result_from_dict(read_json(path, "a groundkit result saved by RunResult.save"), source=str(path))
 
 
+def result_pipeline(result: RunResult, source: str = "this result") -> Any:
+    """The Pipeline that made ``result``, rebuilt from the component records and molecule of its provenance;
+    ResultFileError for a file written before those records existed (or one holding an unrecorded component)."""
+    from .records import pipeline_from_provenance
+
+    return pipeline_from_provenance(result.provenance, source)
+
+
 def check_schema(data: Any, schema: str, version: int, source: str, kind: str) -> None:
     """``ResultFileError`` unless ``data`` is a dict carrying ``schema`` and ``version``; ``kind`` names the
     expected content in the message ('result', 'scan')."""

@@ -137,6 +137,14 @@ def register(role_name: str, name: str, *, aliases: tuple[str, ...] | list[str] 
     return decorate
 
 
+def unregister(role_name: str, name: str) -> type:
+    """Remove the class registered as ``name`` (or an alias) from ``role_name``; returns it."""
+    target = role(role_name)
+    cls = lookup(role_name, name)
+    _forget(target, _BY_CLASS[cls])
+    return cls
+
+
 def _forget(target: Role, entry: Entry) -> None:
     target.entries.pop(entry.name, None)
     for key in [k for k, e in target.keys.items() if e is entry]:

@@ -16,6 +16,7 @@ from typing import Any
 from groundkit.errors import ResultFileError
 
 from .errors import CheckpointError
+from .former_names import former_descriptions
 from .scan_persistence import point_from_dict, point_to_dict, read_json, write_json_atomic
 from .scan_result import ScanPoint
 
@@ -64,6 +65,9 @@ class CheckpointStore:
         if manifest.get("version") != VERSION:
             raise CheckpointError(f"{path}: checkpoint version {manifest.get('version')!r}; this groundkit reads "
                                   f"{VERSION}")
+        former = [fingerprint(d) for d in former_descriptions(self.description)]
+        if manifest.get("fingerprint") in former:  # written before a class rename: resume under its fingerprint
+            self.fingerprint = manifest["fingerprint"]
         if manifest.get("fingerprint") != self.fingerprint:
             raise CheckpointError(
                 f"checkpoint directory {self.directory!r} belongs to another scan configuration "

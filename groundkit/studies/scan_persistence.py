@@ -105,3 +105,48 @@ def save_scan(scan: ScanResult, path: str | os.PathLike) -> None:
 def load_scan(path: str | os.PathLike) -> ScanResult:
     """Read a scan saved by :meth:`ScanResult.save`; ``ResultFileError`` for anything else."""
     return scan_from_dict(read_json(path, "a groundkit scan saved by ScanResult.save"), source=str(path))
+
+
+# rebuilding the scan ---------------------------------------------------------------------------------------------
+def scan_pipeline(scan: ScanResult, source: str = "this scan") -> Any:
+    """The scan's Pipeline without a molecule (``Pipeline().trial_state(...)...``), rebuilt from the component
+    records of its points' provenance; ResultFileError when no point has a result, or the points were written
+    before component records existed."""
+    from groundkit.records import pipeline_from_provenance
+
+    finished = [p for p in scan.points if p.result is not None]
+    if not finished:
+        raise ResultFileError(f"{source}: no point has a result, so no component record to rebuild the pipeline from")
+    return pipeline_from_provenance(finished[0].result.provenance, f"{source} (point {finished[0].index})",
+                                    molecule=False)
+
+
+class StoredGeometries:
+    """The geometry function of a finished scan: each scan value gives back the MoleculeSpec stored for it.
+
+    Picklable (a dict of molecules), so it runs in process pools; a value the scan did not have, or one whose
+    geometry failed, raises ``ScanInputError`` (recorded as that point's failure)."""
+
+    def __init__(self, scan: ScanResult) -> None:
+        self.molecules = {float(p.value): p.molecule for p in scan.points}
+
+    def __call__(self, value: float) -> MoleculeSpec:
+        from .errors import ScanInputError
+
+        molecule = self.molecules.get(float(value))
+        if molecule is None:
+            known = ", ".join(f"{v:g}" for v in self.molecules)
+            raise ScanInputError(f"the stored scan has no molecule for value {value!r}; its values: {known}")
+        return molecule
+
+
+def warm_start_setting(label: str) -> bool | int:
+    """The ``warm_start`` argument of a scan's stored label ('off', '1 chain', '3 chains')."""
+    if label == "off":
+        return False
+    if label == "1 chain":
+        return True
+    count = label.split()[0]
+    if label.endswith(" chains") and count.isdigit():
+        return int(count)
+    raise ResultFileError(f"warm start {label!r} is not one of 'off', '1 chain', 'k chains'")
