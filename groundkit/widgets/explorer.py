@@ -48,6 +48,11 @@ def _mappings() -> list[tuple[str, str]]:
     return [(e.label, e.name) for e in entries("mapping", listed_only=True)]
 
 
+def _chosen(options: list[tuple[str, Any]], resolved: Any) -> Any:
+    """The pipeline's (resolved) component when it is among the options, else the first option."""
+    return resolved if any(value == resolved for _, value in options) else options[0][1]
+
+
 def _with_own(options: list[tuple[str, Any]], own: Any) -> list[tuple[str, Any]]:
     """The options, with the pipeline's own component first when it is not among them."""
     if own is None or any(value == own for _, value in options):
@@ -86,13 +91,13 @@ class Explorer(widgets.VBox):
                                         style=_WIDE)
         self.taper = widgets.Checkbox(value=bool(mapping.taper), description="taper symmetry qubits")
         trial_options = _with_own(_trial_states(), own["trial_state"])
-        self.trial_state = widgets.Dropdown(options=trial_options, value=resolved["trial_state"]
-                                            if own["trial_state"] is not None else trial_options[0][1],
+        self.trial_state = widgets.Dropdown(options=trial_options,
+                                            value=_chosen(trial_options, resolved["trial_state"]),
                                             description="trial state", style=_WIDE)
-        self.estimator, self.shots, self.seed = self._estimator_widgets(own["estimator"])
+        self.estimator, self.shots, self.seed = self._estimator_widgets(own["estimator"], resolved["estimator"])
         minimiser_options = _with_own(_minimisers(), own["minimiser"])
-        self.minimiser = widgets.Dropdown(options=minimiser_options, value=resolved["minimiser"]
-                                          if own["minimiser"] is not None else minimiser_options[0][1],
+        self.minimiser = widgets.Dropdown(options=minimiser_options,
+                                          value=_chosen(minimiser_options, resolved["minimiser"]),
                                           description="minimiser", style=_WIDE)
         self.run_button = widgets.Button(description="Run this configuration", button_style="primary",
                                          icon="play", layout=widgets.Layout(width="220px"))
@@ -112,13 +117,14 @@ class Explorer(widgets.VBox):
         super().__init__([selectors, self.view_area, widgets.HTML("<b>Runs so far</b>"), self.table_area])
         self.add_class("groundkit-explorer")
 
-    def _estimator_widgets(self, own: Any) -> tuple[Any, Any, Any]:
+    def _estimator_widgets(self, own: Any, default: Any) -> tuple[Any, Any, Any]:
         """The estimator selector (registered estimators by label) and the shots and seed fields, which apply to
         every estimator that takes those options."""
         from ..registry import entries, entry_of
 
         options: list[tuple[str, Any]] = [(e.label, e.name) for e in entries("estimator", listed_only=True)]
-        value: Any = options[0][1] if options else None
+        default_entry = entry_of(default)
+        value: Any = default_entry.name if default_entry is not None and default_entry.listed else options[0][1]
         shots, seed = 10_000, 7
         if own is not None:
             entry = entry_of(own)
