@@ -100,7 +100,8 @@ class ComponentMeta(ABCMeta):
         unknown = [k for k in kwargs if k not in accepted] if not takes_any else []
         if unknown:
             key = unknown[0]
-            close = difflib.get_close_matches(key, accepted, n=1)
+            lowered = {name.lower(): name for name in accepted}
+            close = [lowered[key.lower()]] if key.lower() in lowered else difflib.get_close_matches(key, accepted, n=1)
             hint = f" (did you mean {close[0]!r}?)" if close else ""
             return error(f"{cls._owner()} has no option {key!r}{hint}; accepted options: {shown}")
         positional = [p.name for p in list(parameters.values())[1:]

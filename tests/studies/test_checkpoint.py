@@ -102,3 +102,29 @@ def test_a_scan_killed_with_sigkill_resumes_to_the_uninterrupted_scan(tmp_path):
     assert files == [f"point-{k:05d}.json" for k in range(len(values))]  # every point exactly once
     uninterrupted = gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, values)
     assert_same_scan(uninterrupted.table, resumed.table, atol=1e-9, same_process=False)
+
+
+def test_a_checkpoint_written_under_the_former_class_names_resumes(tmp_path, monkeypatch):
+    """Checkpoints started before PUCCD and GradientDescent were renamed hash the former names; they resume."""
+    import json
+
+    from groundkit.studies.checkpoint import fingerprint
+
+    pipeline = gk.Pipeline().trial_state(gk.PairDoubles()).minimiser(gk.FixedStepDescent(step=0.5))
+    first = pipeline.scan(h2, VALUES[:3], checkpoint=str(tmp_path))
+    (tmp_path / "point-00002.json").unlink()  # as if the old scan was killed before its last point
+    manifest_path = tmp_path / "manifest.json"
+    manifest = json.loads(manifest_path.read_text())
+    description = dict(manifest["description"], trial_state="PUCCD()", minimiser="GradientDescent(step=0.5)")
+    old = fingerprint(description)  # what the release before the rename wrote
+    manifest_path.write_text(json.dumps({**manifest, "description": description, "fingerprint": old}))
+    for path in tmp_path.glob("point-*.json"):
+        data = json.loads(path.read_text())
+        path.write_text(json.dumps({**data, "fingerprint": old}))
+    calls = _counting(monkeypatch)
+    again = pipeline.scan(h2, VALUES[:3], checkpoint=str(tmp_path))
+    assert len(calls) == 1  # the two stored points are reused, the missing one computed
+    assert [p.result.energy for p in again.points] == [p.result.energy for p in first.points]
+    assert {json.loads(p.read_text())["fingerprint"] for p in tmp_path.glob("point-*.json")} == {old}
+    with pytest.raises(CheckpointError, match="another scan configuration"):
+        gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, VALUES[:3], checkpoint=str(tmp_path))
