@@ -61,6 +61,9 @@ class ComponentMeta(ABCMeta):
     @property
     def __signature__(cls) -> inspect.Signature:
         """The constructor's signature (so help() and notebooks show the options, not ``*args, **kwargs``)."""
+        by_name = cls.__dict__.get("_by_name")
+        if by_name is not None:
+            return inspect.signature(by_name.__get__(None, cls))
         parameters = list(cls._init_signature().parameters.values())[1:]
         return inspect.Signature(parameters)
 

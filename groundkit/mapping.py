@@ -51,8 +51,11 @@ class QubitMapping(Component, role="mapping"):
 
     @property
     def name(self) -> str:
-        """The registered name ('jordan-wigner', 'bravyi-kitaev', 'parity', or a user's)."""
-        return name_of(self)
+        """The registered name ('jordan-wigner', 'bravyi-kitaev', 'parity', or a user's); the class name for a
+        mapping that is not registered (it runs, but cannot be saved in a record or chosen by name)."""
+        from .registry import entry_of
+
+        return name_of(self) if entry_of(self) is not None else type(self).__name__
 
     @abstractmethod
     def transform(self, operator: Any, n_modes: int) -> Any:
@@ -69,9 +72,11 @@ class QubitMapping(Component, role="mapping"):
         return self if not self.taper else type(self)(**{**self.options(), "taper": False})
 
     def __repr__(self) -> str:
+        from .registry import entry_of
+
         extra = [f"{f.name}={getattr(self, f.name)!r}" for f in fields(self) if f.name != "taper"]
         tail = ", taper=True" if self.taper else ""
-        if not extra:
+        if not extra and entry_of(self) is not None:
             return f"QubitMapping({self.name!r}{tail})"
         return f"{type(self).__name__}({', '.join(extra)}{tail})"
 
