@@ -80,6 +80,7 @@ def register(role_name: str, name: str, *, aliases: tuple[str, ...] | list[str] 
              listed: bool = True) -> Any:
     """Class decorator: register the class under ``role_name`` as ``name`` (and ``aliases``).
 
+    The class's own name is accepted too, unless another class of the role already answers to it.
     ``label`` is the readable text selectors show (default: the name); ``listed=False`` keeps a class that
     needs options (e.g. a list of excitations) out of selectors, while its name still works. Refused with a
     ComponentError: an unknown role, a class that is not a component of that role, a name taken by another
@@ -108,8 +109,13 @@ def register(role_name: str, name: str, *, aliases: tuple[str, ...] | list[str] 
                 f"a {role_name} derives from {_base_names(target)}"
                 + _actual_role(cls)
             )
-        keys = [fold(k) for k in (name, cls.__name__, *aliases)]
-        for key, shown in zip(keys, (name, cls.__name__, *aliases)):
+        explicit = (name, *aliases)
+        keys = [fold(k) for k in explicit]
+        class_key = fold(cls.__name__)  # the class name is a name too, unless another class already holds it
+        holder = target.keys.get(class_key)
+        if class_key not in keys and (holder is None or holder.cls is cls or _same_definition(holder.cls, cls)):
+            keys.append(class_key)
+        for key, shown in zip(keys, explicit):
             holder = target.keys.get(key)
             if holder is not None and holder.cls is not cls and not _same_definition(holder.cls, cls):
                 raise ComponentError(

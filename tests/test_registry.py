@@ -299,3 +299,18 @@ def test_an_unregistered_component_runs_but_cannot_be_rebuilt(h2, tmp_path):
     result.save(tmp_path / "unnamed.json")
     with pytest.raises(gk.ResultFileError, match="trial state was not recorded.*Unnamed is not registered"):
         gk.load_result(tmp_path / "unnamed.json").pipeline()
+
+
+def test_two_classes_of_one_class_name_from_different_places_can_both_register():
+    @dataclass(frozen=True, kw_only=True)
+    class LowestPairs(gk.TrialState):  # the same class name as the module's registered LowestPairs
+        def excitations(self, problem):
+            return []
+
+    gk.register("trial_state", "test-other-pairs")(LowestPairs)
+    try:
+        assert gk.registry.lookup("trial_state", "test-other-pairs") is LowestPairs
+        assert gk.registry.lookup("trial_state", "LowestPairs") is globals()["LowestPairs"]  # the first keeps it
+    finally:
+        gk.unregister("trial_state", "test-other-pairs")
+    assert gk.registry.lookup("trial_state", "LowestPairs") is globals()["LowestPairs"]

@@ -49,8 +49,12 @@ def _mappings() -> list[tuple[str, str]]:
 
 
 def _chosen(options: list[tuple[str, Any]], resolved: Any) -> Any:
-    """The pipeline's (resolved) component when it is among the options, else the first option."""
-    return resolved if any(value == resolved for _, value in options) else options[0][1]
+    """The pipeline's (resolved) component when it is among the options (moved to the top), else the first."""
+    for k, (_label, value) in enumerate(options):
+        if value == resolved:
+            options.insert(0, options.pop(k))
+            return value
+    return options[0][1]
 
 
 def _with_own(options: list[tuple[str, Any]], own: Any) -> list[tuple[str, Any]]:
@@ -124,7 +128,7 @@ class Explorer(widgets.VBox):
 
         options: list[tuple[str, Any]] = [(e.label, e.name) for e in entries("estimator", listed_only=True)]
         default_entry = entry_of(default)
-        value: Any = default_entry.name if default_entry is not None and default_entry.listed else options[0][1]
+        value: Any = _chosen(options, default_entry.name) if default_entry is not None else options[0][1]
         shots, seed = 10_000, 7
         if own is not None:
             entry = entry_of(own)
