@@ -3,7 +3,7 @@
 Energies in Hartree; input coordinates in angstrom unless ``unit="bohr"``.
 """
 
-from . import adaptive, studies
+from . import adaptive, constraints, registry, studies
 from .active_space import ActiveSpace, ResolvedActiveSpace
 from .adaptive import (
     Adaptive,
@@ -21,7 +21,8 @@ from .adaptive import (
 )
 from .baselines import Baselines
 from .circuits import circuit_from_openqasm, circuit_resources, openqasm_text, trial_circuit
-from .components import as_estimator, as_mapping, as_minimiser, as_trial_state
+from .component import Component, component_from_dict
+from .components import as_active_space, as_component, as_estimator, as_mapping, as_minimiser, as_trial_state
 from .errors import (
     ActiveSpaceError,
     AnalysisError,
@@ -60,7 +61,7 @@ from .estimators import (
     compare_measurements,
     shot_budget,
 )
-from .mapping import QubitMapping
+from .mapping import BravyiKitaev, JordanWigner, LinearMapping, Parity, QubitMapping
 from .minimisers import (
     BFGS,
     COBYLA,
@@ -83,6 +84,7 @@ from .problem import Problem, build_problem
 from .qubit_states import CircuitTrialState, HardwareEfficient, PauliRotations, QubitObjective, QubitTrialState
 from .qubits import QubitEncoding, compare_mappings
 from .reference import ExactState, Reference
+from .registry import register, unregister
 from .result import CHEMICAL_ACCURACY, History, ReferenceRecord, Resources, RunResult
 from .sizing import CostEstimate, Limits, cost_estimate, limits
 from .studies import BondStretch, GeometryOptimum, ScanPoint, ScanResult, compare, load_scan
@@ -92,6 +94,8 @@ from .widgets import explore
 __version__ = "0.1.0"
 
 __all__ = [
+    "BravyiKitaev", "Component", "JordanWigner", "LinearMapping", "Parity", "as_active_space", "as_component",
+    "component_from_dict", "constraints", "register", "registry", "unregister",
     "ActiveSpace", "ActiveSpaceError", "Adam", "Adaptive", "AnalysisError", "BFGS", "Baselines", "BasisError",
     "BondStretch", "CHEMICAL_ACCURACY", "COBYLA", "ChargeError", "CheckpointError", "CircuitTrialState",
     "ComponentError", "ConvergenceError", "DegenerateBoundaryWarning", "ElementError", "Estimator", "ExactEstimator",

@@ -12,16 +12,20 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .chemistry import ScfSolution
+from .component import Component
+from .constraints import Bool, Integer, Interval, ListOf, OneOf, OrNone, Pair
 from .elements import frozen_core_orbitals
 from .errors import ActiveSpaceError, DegenerateBoundaryWarning
 from .molecule import MoleculeSpec
+from .registry import register
 
 DEGENERACY_TOL = 1e-4  # Hartree: orbitals closer than this in energy count as one degenerate set
 MP2_OCCUPATION_WINDOW = (0.02, 1.98)  # common practice, no single source
 
 
+@register("active_space", "active-space", label="active space")
 @dataclass(frozen=True)
-class ActiveSpace:
+class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
     """Configuration of an active space; :meth:`resolve` applies it to one molecule.
 
     - ``ActiveSpace()``: every orbital and electron (full space).
@@ -38,44 +42,26 @@ class ActiveSpace:
     selection: str = "window"
     occupation_window: tuple[float, float] = MP2_OCCUPATION_WINDOW
 
-    def __post_init__(self) -> None:
-        if not isinstance(self.frozen_core, (bool, np.bool_)):
-            raise ActiveSpaceError(
-                f"frozen_core={self.frozen_core!r} is not accepted; give True or False (a bool, not "
-                f"{type(self.frozen_core).__name__})"
-            )
-        object.__setattr__(self, "frozen_core", bool(self.frozen_core))
-        for name in ("electrons", "orbitals"):
-            value = getattr(self, name)
-            if value is not None and (not _is_int(value) or value < (1 if name == "orbitals" else 0)):
-                low = 1 if name == "orbitals" else 0
-                raise ActiveSpaceError(f"{name}={value!r} is not accepted; give an integer >= {low} or None")
+    constraints = {
+        "electrons": OrNone(Integer(0)),
+        "orbitals": OrNone(Integer(1)),
+        "indices": OrNone(ListOf(Integer(0), min_length=1, unique=True)),
+        "frozen_core": Bool(),
+        "selection": OneOf("window", "mp2-occupation"),
+        "occupation_window": Pair(Interval(float, 0.0, 2.0, closed="neither"), unit="electrons"),
+    }
+
+    def check_options(self) -> None:
+        """Electrons and orbitals together (or indices); orbitals agreeing with the indices given."""
         if (self.electrons is None) != (self.orbitals is None) and self.indices is None:
             raise ActiveSpaceError(
                 f"give electrons and orbitals together (got electrons={self.electrons!r}, "
                 f"orbitals={self.orbitals!r}), or indices=[...]"
             )
         if self.indices is not None:
-            try:
-                idx = tuple(self.indices) if not isinstance(self.indices, (str, bytes)) else ()
-            except TypeError:
-                idx = ()
-            if not idx or not all(_is_int(i) and i >= 0 for i in idx):
-                raise ActiveSpaceError(f"indices={self.indices!r} must be a non-empty list of orbital indices >= 0")
-            if len(set(idx)) != len(idx):
-                raise ActiveSpaceError(f"indices={self.indices!r} repeat an orbital; list each orbital once")
-            if self.orbitals is not None and self.orbitals != len(idx):
-                raise ActiveSpaceError(f"orbitals={self.orbitals} disagrees with {len(idx)} indices given")
-            object.__setattr__(self, "indices", tuple(sorted(int(i) for i in idx)))
-        if not isinstance(self.selection, str) or self.selection not in ("window", "mp2-occupation"):
-            raise ActiveSpaceError(f"selection={self.selection!r}; accepted: 'window', 'mp2-occupation'")
-        window = self.occupation_window
-        if (not isinstance(window, (tuple, list)) or len(window) != 2
-                or not all(isinstance(x, (int, float, np.floating, np.integer)) and not isinstance(x, bool)
-                           for x in window) or not 0.0 < window[0] < window[1] < 2.0):
-            raise ActiveSpaceError(
-                f"occupation_window={self.occupation_window!r} must satisfy 0 < low < high < 2 (electrons)"
-            )
+            if self.orbitals is not None and self.orbitals != len(self.indices):
+                raise ActiveSpaceError(f"orbitals={self.orbitals} disagrees with {len(self.indices)} indices given")
+            object.__setattr__(self, "indices", tuple(sorted(self.indices)))
 
     @classmethod
     def auto(
@@ -267,7 +253,3 @@ class ResolvedActiveSpace:
     def __str__(self) -> str:
         return (f"({self.n_electrons}e, {self.n_orbitals}o) active: orbitals {list(self.active)}, "
                 f"core {list(self.core)}, {len(self.external)} dropped")
-
-
-def _is_int(value: object) -> bool:
-    return isinstance(value, (int, np.integer)) and not isinstance(value, bool)

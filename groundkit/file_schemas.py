@@ -25,7 +25,7 @@ MANIFEST_NAME = "groundkit.scan-checkpoint"
 POINT_FILE_NAME = "groundkit.scan-point"
 VERSION_TEXT = f"the whole number {VERSION} (the version this groundkit reads)"
 CHECKPOINT_VERSION = 2  # checkpoint point files carry a checksum since version 2
-CHECKPOINT_VERSIONS = (1, 2)  # a version-1 manifest is read so that its refusal can say what changed
+CHECKPOINT_VERSIONS = (1, 2)  # version 1 (earlier releases): point files without a checksum
 MAX_DEPTH = 64
 """Deepest nesting of arrays and objects accepted in a file (groundkit writes at most about 12)."""
 ROUNDING = 1e-6
@@ -325,7 +325,7 @@ MANIFEST = _document("scan-checkpoint", "groundkit scan checkpoint manifest", {
 POINT_FILE = _document("scan-point", "groundkit checkpoint point file", {
     "type": "object",
     "required": ["schema", "version", "fingerprint", "point"],
-    "properties": {**_envelope(POINT_FILE_NAME, (CHECKPOINT_VERSION,)), "fingerprint": _ref("fingerprint"),
+    "properties": {**_envelope(POINT_FILE_NAME, CHECKPOINT_VERSIONS), "fingerprint": _ref("fingerprint"),
                    "point": _ref("scan_point")},
     "additionalProperties": _ref("plain"),
     "description": "a groundkit checkpoint point file (a JSON object)",
@@ -333,7 +333,7 @@ POINT_FILE = _document("scan-point", "groundkit checkpoint point file", {
 """``point-NNNNN.json`` of a checkpoint directory."""
 
 ENVELOPE_VERSIONS = {RUN_RESULT_NAME: (VERSION,), SCAN_NAME: (VERSION,), MANIFEST_NAME: CHECKPOINT_VERSIONS,
-                     POINT_FILE_NAME: (CHECKPOINT_VERSION,)}
+                     POINT_FILE_NAME: CHECKPOINT_VERSIONS}
 ENVELOPES = {name: _document(f"{name}-envelope", f"{name} envelope", {
     "type": "object", "required": ["schema", "version"], "properties": _envelope(name, ENVELOPE_VERSIONS[name]),
     "description": f"a groundkit file with \"schema\": \"{name}\""})

@@ -113,6 +113,14 @@ def result_from_dict(data: Any, source: str = "data", parsed: bool = False) -> R
     return build_result(data)
 
 
+def result_pipeline(result: RunResult, source: str = "this result") -> Any:
+    """The Pipeline that made ``result``, rebuilt from the component records and molecule of its provenance;
+    ResultFileError for a file written before those records existed (or one holding an unrecorded component)."""
+    from .records import pipeline_from_provenance
+
+    return pipeline_from_provenance(result.provenance, source)
+
+
 def build_result(data: dict[str, Any]) -> RunResult:
     """A RunResult from a dict that passed validation (:data:`groundkit.file_schemas.RUN_RESULT` and
     :func:`groundkit.file_checks.result_faults`)."""

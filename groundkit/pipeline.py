@@ -60,15 +60,10 @@ class Pipeline:
             raise ComponentError(f"molecule must be a MoleculeSpec, got {type(molecule).__name__}")
         return self._with(molecule=molecule)
 
-    def active_space(self, space: ActiveSpace | None = None, **options: Any) -> Pipeline:
-        """Choose the active space: an :class:`ActiveSpace`, or its options (``electrons=2, orbitals=3``)."""
-        if space is None:
-            space = _c.build_with_options(ActiveSpace, options)
-        elif options:
-            raise ComponentError("give an ActiveSpace or keyword options, not both")
-        elif not isinstance(space, ActiveSpace):
-            raise ComponentError(f"active_space takes an ActiveSpace, got {space!r}")
-        return self._with(active_space=space)
+    def active_space(self, space: ActiveSpace | str | None = None, **options: Any) -> Pipeline:
+        """Choose the active space: an :class:`ActiveSpace`, or its options (``electrons=2, orbitals=3``), or a
+        registered active-space name with options."""
+        return self._with(active_space=_c.as_active_space(space, **options))
 
     def mapping(self, mapping: QubitMapping | str, **options: Any) -> Pipeline:
         """Choose the fermion-to-qubit mapping: a :class:`QubitMapping` or a name (``"parity"``)."""

@@ -1,4 +1,6 @@
-"""Where a result came from: library versions, platform, time, seeds and the full configuration."""
+"""Where a result came from: library versions, platform, time, seeds, the readable configuration, and the
+component records and molecule from which :meth:`RunResult.pipeline` rebuilds the run (see
+:mod:`groundkit.records`)."""
 
 from __future__ import annotations
 
@@ -28,7 +30,15 @@ def seeds_of(components: dict[str, Any]) -> dict[str, int]:
 
 
 def provenance(configuration: dict[str, Any], components: dict[str, Any]) -> dict[str, Any]:
-    """A JSON-ready provenance record."""
+    """A JSON-ready provenance record; ``components`` are the resolved components by role, with the molecule."""
+    from .records import component_records, molecule_record
+
+    records, notes = component_records(components)
+    extra: dict[str, Any] = {"components": records}
+    if notes:
+        extra["component_notes"] = notes
+    if components.get("molecule") is not None:
+        extra["molecule"] = molecule_record(components["molecule"])
     return {
         "versions": versions(),
         "platform": platform.platform(),
@@ -36,4 +46,5 @@ def provenance(configuration: dict[str, Any], components: dict[str, Any]) -> dic
         "time": datetime.now(UTC).isoformat(timespec="seconds"),
         "seeds": seeds_of(components),
         "configuration": configuration,
+        **extra,
     }

@@ -183,6 +183,14 @@ class RunResult:
 
         return result_to_dict(self)
 
+    def pipeline(self) -> Any:
+        """The Pipeline that made this result (molecule and every component, rebuilt from the provenance's
+        records); running it again reproduces the energy for deterministic components. ResultFileError for
+        results saved before component records existed."""
+        from .persistence import result_pipeline
+
+        return result_pipeline(self)
+
     def save(self, path: str) -> None:
         """Write this result as JSON, atomically (a temporary file, then a rename)."""
         from .persistence import save_result

@@ -88,8 +88,8 @@ def pyscf_exact(atom: str, basis: str = "sto-3g", *, charge: int = 0, spin: int 
 
 
 @cache
-def openfermion_jordan_wigner(atom: str, basis: str = "sto-3g") -> QubitOperator:
-    """The full-space molecular Hamiltonian under Jordan-Wigner (OpenFermion), on PySCF RHF orbitals.
+def openfermion_interaction(atom: str, basis: str = "sto-3g") -> InteractionOperator:
+    """The full-space molecular Hamiltonian as an OpenFermion InteractionOperator, on PySCF RHF orbitals.
 
     The spin-orbital tensors are written out here from PySCF's MO integrals (interleaved: 2p = alpha, 2p+1 = beta):
     H = E_nuc + sum h_pq a+_p a_q + 1/2 sum (pq|rs) a+_{p s} a+_{r t} a_{s t} a_{q s} over spins s, t.
@@ -105,6 +105,12 @@ def openfermion_jordan_wigner(atom: str, basis: str = "sto-3g") -> QubitOperator
         one[sigma::2, sigma::2] = h1
         for tau in (0, 1):
             two[sigma::2, tau::2, tau::2, sigma::2] = 0.5 * eri.transpose(0, 2, 3, 1)  # [p, r, s, q] = (pq|rs)
-    hamiltonian = jordan_wigner(InteractionOperator(mol.energy_nuc(), one, two))
+    return InteractionOperator(mol.energy_nuc(), one, two)
+
+
+@cache
+def openfermion_jordan_wigner(atom: str, basis: str = "sto-3g") -> QubitOperator:
+    """The full-space molecular Hamiltonian (:func:`openfermion_interaction`) under Jordan-Wigner (OpenFermion)."""
+    hamiltonian = jordan_wigner(openfermion_interaction(atom, basis))
     hamiltonian.compress(1e-12)
     return hamiltonian

@@ -374,7 +374,7 @@ def test_names():
         minimiser_from_name("newton")
     with pytest.raises(ComponentError, match="unknown minimiser 3"):
         minimiser_from_name(3)
-    with pytest.raises(ComponentError, match="does not take option.*step.*accepted options"):
+    with pytest.raises(ComponentError, match="has no option .step.*accepted options"):
         minimiser_from_name("bfgs", step=0.1)
     with pytest.raises(ComponentError, match="step=-1"):
         minimiser_from_name("adam", step=-1)
@@ -388,7 +388,7 @@ def test_value_equality_repr_and_immutability():
     assert eval(repr(Adam(beta1=0.8))) == Adam(beta1=0.8)
     with pytest.raises(dataclasses.FrozenInstanceError):
         BFGS().tolerance = 1.0
-    with pytest.raises(TypeError):
+    with pytest.raises(ComponentError, match="by keyword"):
         FixedStepDescent(0.1)  # options are keyword-only
     with pytest.raises(TypeError):
         Minimiser()  # abstract

@@ -5,7 +5,6 @@ from groundkit.adaptive.costs import GateCounter, gate_counter
 from groundkit.adaptive.engine import DeterminantPoolEngine, pool_gradients
 from groundkit.adaptive.growth import Growth, grow
 from groundkit.adaptive.pools import (
-    POOLS,
     ExcitationPool,
     GeneralisedPool,
     OperatorPool,
@@ -18,7 +17,6 @@ from groundkit.adaptive.records import GrowthStep, grown_sequence, grown_trial_s
 from groundkit.adaptive.runner import run_adaptive
 
 __all__ = [
-    "POOLS",
     "Adaptive",
     "DeterminantPoolEngine",
     "ExcitationPool",

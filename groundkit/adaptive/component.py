@@ -2,19 +2,31 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import MISSING, dataclass, fields, replace
-from numbers import Real
 from typing import Any
 
-from groundkit.adaptive.pools import OperatorPool, SinglesDoublesPool, as_pool
-from groundkit.errors import ComponentError, ExcitationError
+from groundkit.adaptive.pools import OperatorPool, SinglesDoublesPool
+from groundkit.constraints import Bool, ComponentOf, Constraint, Integer, ListOf, OrNone, Positive
+from groundkit.errors import ComponentError
 from groundkit.minimisers import Minimiser
 from groundkit.qubit_states.pauli_rotations import pauli_label
+from groundkit.registry import register
 from groundkit.sector.excitation import Excitation, as_excitation
 from groundkit.trial_states.base import ExcitationPlan, TrialState
 
 
+class Operator(Constraint):
+    """One operator of a growth sequence: an excitation ``((creators...), (annihilators...))`` or a Pauli-string
+    label such as ``"Y0 X2"``."""
+
+    def check(self, value: Any) -> Any:
+        return pauli_label(value) if isinstance(value, str) else as_excitation(value)  # their own errors
+
+    def describe(self) -> str:
+        return "an excitation ((creators...), (annihilators...)) or a Pauli-string label such as 'Y0 X2'"
+
+
+@register("trial_state", "adaptive", label="adaptive (grown operator by operator)")
 @dataclass(frozen=True, kw_only=True, repr=False)
 class Adaptive(TrialState):
     """Grow the trial state from Hartree-Fock by the pool operator of largest energy gradient, re-minimising every
@@ -45,27 +57,18 @@ class Adaptive(TrialState):
     repeats: bool = True
     start_from: tuple[Excitation | str, ...] = ()
 
-    def __post_init__(self) -> None:
-        object.__setattr__(self, "pool", as_pool(self.pool))
-        for name in ("gradient_threshold", "energy_tolerance"):
-            value = getattr(self, name)
-            if isinstance(value, bool) or not isinstance(value, Real) or not math.isfinite(value) or value <= 0:
-                unit = "Hartree per radian" if name == "gradient_threshold" else "Hartree"
-                raise ComponentError(f"Adaptive({name}={value!r}): {name} must be a finite number > 0 ({unit})")
+    constraints = {
+        "pool": ComponentOf("pool"),
+        "gradient_threshold": Positive(unit="Hartree per radian"),
+        "max_operators": OrNone(Integer(1)),
+        "minimiser": OrNone(ComponentOf("minimiser")),
+        "energy_tolerance": Positive(unit="Hartree"),
+        "repeats": Bool(),
+        "start_from": ListOf(Operator()),
+    }
+
+    def check_options(self) -> None:
         cap = self.max_operators
-        if cap is not None and (isinstance(cap, bool) or not isinstance(cap, int) or cap < 1):
-            raise ComponentError(f"Adaptive(max_operators={cap!r}): max_operators must be None or an integer >= 1")
-        if self.minimiser is not None and not isinstance(self.minimiser, Minimiser):
-            raise ComponentError(
-                f"Adaptive(minimiser={self.minimiser!r}): give a Minimiser such as BFGS(), or None for the "
-                f"pipeline's minimiser"
-            )
-        if not isinstance(self.repeats, bool):
-            raise ComponentError(f"Adaptive(repeats={self.repeats!r}): repeats must be True or False")
-        if isinstance(self.start_from, (str, bytes)) or not hasattr(self.start_from, "__iter__"):
-            raise ExcitationError(f"Adaptive(start_from={self.start_from!r}): give a list of excitations")
-        object.__setattr__(self, "start_from", tuple(pauli_label(e) if isinstance(e, str) else as_excitation(e)
-                                                    for e in self.start_from))
         if cap is not None and len(self.start_from) > cap:
             raise ComponentError(
                 f"Adaptive(max_operators={cap}) is below the {len(self.start_from)} operators of start_from"
@@ -105,3 +108,4 @@ class Adaptive(TrialState):
             f"Pipeline.run() to grow it, then use groundkit.adaptive.grown_trial_state(result) for a fixed "
             f"ExcitationList of the grown sequence"
         )
+

@@ -11,7 +11,8 @@ Built in:
 - :class:`GeneralisedPool`: generalised singles and doubles, every Sz-conserving move between any spin orbitals;
 - :class:`ExcitationPool`: a list you give.
 
-To add a pool, subclass :class:`OperatorPool` and implement :meth:`OperatorPool.candidates`; see
+To add a pool, subclass :class:`OperatorPool`, implement :meth:`OperatorPool.candidates` and register it
+(``@groundkit.register("pool", "my-pool")``) so ``Adaptive(pool="my-pool")`` finds it; see
 ``docs/adaptive.md``. A pool whose generators are not fermionic excitations (the qubit pool of Pauli strings,
 :mod:`groundkit.adaptive.qubit_pool`) also overrides :meth:`OperatorPool.engine` to supply its own way of
 evaluating them.
@@ -19,18 +20,20 @@ evaluating them.
 
 from __future__ import annotations
 
-from abc import ABC, abstractmethod
+from abc import abstractmethod
 from collections.abc import Sequence
 from dataclasses import dataclass
 from itertools import combinations
 from typing import Any, ClassVar
 
+from groundkit.component import Component
 from groundkit.errors import ComponentError, ExcitationError
+from groundkit.registry import register
 from groundkit.sector.excitation import Excitation, as_excitation, check_excitations
 from groundkit.trial_states.excitation_sets import generalised_singles, reference_doubles, reference_singles
 
 
-class OperatorPool(ABC):
+class OperatorPool(Component, role="pool"):
     """Base of operator pools: ``candidates(problem, reference)`` lists the generators to choose from."""
 
     name: ClassVar[str] = "pool"
@@ -67,6 +70,7 @@ class OperatorPool(ABC):
         return DeterminantPoolEngine(problem, self.checked_candidates(problem, reference), reference)
 
 
+@register("pool", "singles-doubles", aliases=("sd",), label="singles and doubles from the reference")
 @dataclass(frozen=True)
 class SinglesDoublesPool(OperatorPool):
     """Every Sz-conserving double, then single, from the reference: the excitations of UCCSD, in its order."""
@@ -79,6 +83,7 @@ class SinglesDoublesPool(OperatorPool):
         return reference_doubles(alpha, beta, n) + reference_singles(alpha, beta, n)
 
 
+@register("pool", "generalised", aliases=("generalized",), label="generalised singles and doubles")
 @dataclass(frozen=True)
 class GeneralisedPool(OperatorPool):
     """Generalised singles and doubles: every Sz-conserving single and double between any spin orbitals.
@@ -94,6 +99,7 @@ class GeneralisedPool(OperatorPool):
         return generalised_singles(n) + generalised_doubles(n)
 
 
+@register("pool", "excitations", label="your excitations", listed=False)
 @dataclass(frozen=True, init=False)
 class ExcitationPool(OperatorPool):
     """The excitations you list, ``((creators...), (annihilators...))`` each; checked when built."""
@@ -136,23 +142,13 @@ def generalised_doubles(n_orbitals: int) -> list[Excitation]:
     return out
 
 
-POOLS: dict[str, type[OperatorPool]] = {"singles-doubles": SinglesDoublesPool, "generalised": GeneralisedPool}
-"""Pools by name (``Adaptive(pool="generalised")``)."""
-
-
 def as_pool(value: object) -> OperatorPool:
-    """An :class:`OperatorPool` from an instance, a name in :data:`POOLS` or ``"qubit"`` (a default
-    :class:`~groundkit.adaptive.QubitPool`); case and '_' ignored."""
-    if isinstance(value, OperatorPool):
-        return value
-    if isinstance(value, str):
-        key = value.strip().lower().replace("_", "-")
-        key = {"generalized": "generalised", "sd": "singles-doubles"}.get(key, key)
-        if key in POOLS:
-            return POOLS[key]()
-        if key == "qubit":
-            from groundkit.adaptive.qubit_pool import QubitPool
+    """An :class:`OperatorPool` from an instance or a registered pool name (``"singles-doubles"``,
+    ``"generalised"``, ``"qubit"``, or a user's; case, '-' and '_' ignored), built with default options."""
+    from groundkit.component import _shown
+    from groundkit.constraints import ComponentOf, Refused
 
-            return QubitPool()
-    accepted = ", ".join(repr(k) for k in (*POOLS, "qubit"))
-    raise ComponentError(f"pool={value!r} is not an OperatorPool or a pool name; accepted names: {accepted}")
+    try:
+        return ComponentOf("pool").check(value)
+    except Refused as refusal:
+        raise ComponentError(f"pool={_shown(value)}: pool must be {refusal}") from None

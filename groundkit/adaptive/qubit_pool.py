@@ -22,11 +22,13 @@ from typing import Any, ClassVar
 import numpy as np
 from openfermion import FermionOperator
 
-from groundkit.adaptive.pools import OperatorPool, SinglesDoublesPool, as_pool
+from groundkit.adaptive.pools import OperatorPool, SinglesDoublesPool
+from groundkit.constraints import Bool, ComponentOf, OrNone
 from groundkit.errors import ComponentError
 from groundkit.mapping import QubitMapping
 from groundkit.qubit_states.objective import QubitObjective
 from groundkit.qubit_states.pauli_rotations import PauliAction, PauliRotations, pauli_label, pauli_term
+from groundkit.registry import register
 from groundkit.sector.excitation import Excitation
 from groundkit.sector.space import lowest_strings
 
@@ -49,6 +51,7 @@ def generator_strings(encoding: Any, excitations: Sequence[Excitation], drop_z: 
     return tuple(seen)
 
 
+@register("pool", "qubit", label="Pauli strings of mapped singles and doubles")
 @dataclass(frozen=True, kw_only=True)
 class QubitPool(OperatorPool):
     """Pauli strings of the mapped generators of a fermionic ``source`` pool (Tang et al., PRX Quantum 2, 020310).
@@ -65,17 +68,11 @@ class QubitPool(OperatorPool):
     drop_z: bool = True
     mapping: QubitMapping | str | None = None
 
-    def __post_init__(self) -> None:
-        source = as_pool(self.source)
-        if isinstance(source, (QubitPool, PauliStringPool)):
-            raise ComponentError(f"QubitPool(source={source!r}): the source must be a fermionic pool")
-        object.__setattr__(self, "source", source)
-        if not isinstance(self.drop_z, bool):
-            raise ComponentError(f"QubitPool(drop_z={self.drop_z!r}): drop_z must be True or False")
-        if isinstance(self.mapping, str):
-            object.__setattr__(self, "mapping", QubitMapping(self.mapping))
-        elif self.mapping is not None and not isinstance(self.mapping, QubitMapping):
-            raise ComponentError(f"QubitPool(mapping={self.mapping!r}): give None, a mapping name or a QubitMapping")
+    constraints = {"source": ComponentOf("pool"), "drop_z": Bool(), "mapping": OrNone(ComponentOf("mapping"))}
+
+    def check_options(self) -> None:
+        if isinstance(self.source, (QubitPool, PauliStringPool)):
+            raise ComponentError(f"QubitPool(source={self.source!r}): the source must be a fermionic pool")
 
     def candidates(self, problem: Any, reference: tuple[int, int]) -> Sequence[Excitation]:
         """The source pool's (checked) excitations, before they are mapped and split."""
@@ -104,6 +101,7 @@ class QubitPool(OperatorPool):
         return PauliPoolEngine(encoding, strings, reference)
 
 
+@register("pool", "pauli-strings", label="your Pauli strings", listed=False)
 @dataclass(frozen=True, init=False)
 class PauliStringPool(OperatorPool):
     """The Pauli strings you list (labels like ``"Y0 X2"``), on the pipeline's register; checked when built."""

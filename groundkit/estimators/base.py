@@ -12,7 +12,7 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import ComponentError
+from ..component import Component
 
 
 class Measurement(ABC):
@@ -31,15 +31,10 @@ class Measurement(ABC):
 
     def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
         """(energy, gradient in Ha/rad); only when ``provides_gradient``."""
+        from ..errors import ComponentError
+
         raise ComponentError(f"{type(self).__name__} gives no gradients; use a gradient-free minimiser (COBYLA, "
                              "Nelder-Mead, SPSA)")
-
-
-def check_seed(owner: str, seed: object) -> None:
-    """``seed`` must be None or an integer >= 0 (what ``numpy.random.default_rng`` accepts); ComponentError else."""
-    if seed is not None and (isinstance(seed, (bool, np.bool_)) or not isinstance(seed, (int, np.integer))
-                             or seed < 0):
-        raise ComponentError(f"{owner}(seed={seed!r}): seed must be None or an integer >= 0")
 
 
 def central_differences(energy: Any, theta: np.ndarray, step: float) -> np.ndarray:
@@ -53,7 +48,7 @@ def central_differences(energy: Any, theta: np.ndarray, step: float) -> np.ndarr
     return gradient
 
 
-class Estimator(ABC):
+class Estimator(Component, role="estimator"):
     """Configuration of how energies are obtained; subclasses are frozen dataclasses of options."""
 
     exact: bool = True

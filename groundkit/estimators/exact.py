@@ -7,6 +7,7 @@ from typing import Any
 
 import numpy as np
 
+from ..registry import register
 from .base import Estimator, Measurement
 
 
@@ -27,6 +28,7 @@ class ExactMeasurement(Measurement):
         return float(energy), np.asarray(gradient, dtype=float)
 
 
+@register("estimator", "exact", label="exact energies")
 @dataclass(frozen=True)
 class ExactEstimator(Estimator):
     """Exact energies and analytic (adjoint) gradients from the objective; the default estimator."""

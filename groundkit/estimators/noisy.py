@@ -16,14 +16,17 @@ import cirq
 import numpy as np
 from openfermion import QubitOperator, get_sparse_operator
 
+from ..constraints import Integer, Interval, OrNone, Probability, Seed
 from ..errors import ComponentError, SizeLimitError
-from .base import Estimator, Measurement, central_differences, check_seed
+from ..registry import register
+from .base import Estimator, Measurement, central_differences
 from .groups import measurement_groups, sample_group
 from .sampled import allocate
 
 NOISY_QUBIT_LIMIT = 10  # density matrices of 4^n entries: 10 qubits = 16 MB, and Cirq's simulation time grows fast
 
 
+@register("estimator", "noisy", label="noisy circuit (gate and readout errors)")
 @dataclass(frozen=True)
 class NoisyEstimator(Estimator):
     """``NoisyEstimator(one_qubit=1e-3, two_qubit=1e-2, readout=1e-2, shots=None, seed=None)``; probabilities in
@@ -38,18 +41,14 @@ class NoisyEstimator(Estimator):
 
     exact = False
 
-    def __post_init__(self) -> None:
-        for name in ("one_qubit", "two_qubit", "readout"):
-            value = getattr(self, name)
-            if isinstance(value, bool) or not isinstance(value, (int, float)) or not 0.0 <= value <= 1.0:
-                raise ComponentError(f"{name}={value!r} is a probability and must lie in [0, 1]")
-        if self.shots is not None and (isinstance(self.shots, bool) or not isinstance(self.shots, (int, np.integer))
-                                       or self.shots <= 0):
-            raise ComponentError(f"shots={self.shots!r} must be a positive integer or None (exact expectation)")
-        check_seed("NoisyEstimator", self.seed)
-        if isinstance(self.gradient_step, bool) or not (isinstance(self.gradient_step, (int, float))
-                                                         and 0 < self.gradient_step < np.pi):
-            raise ComponentError(f"gradient_step={self.gradient_step!r} must lie in (0, pi) radians")
+    constraints = {
+        "one_qubit": Probability(),
+        "two_qubit": Probability(),
+        "readout": Probability(),
+        "shots": OrNone(Integer(1)),
+        "seed": Seed(),
+        "gradient_step": Interval(float, 0.0, np.pi, closed="neither", unit="radians"),
+    }
 
     def measure(self, objective: Any, encoding: Any = None) -> NoisyMeasurement:
         if encoding is None:

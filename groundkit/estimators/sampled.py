@@ -14,9 +14,11 @@ from typing import Any
 
 import numpy as np
 
+from ..constraints import Integer, Interval, OneOf, Seed
 from ..energy_surface import EnergySurface
 from ..errors import ComponentError
-from .base import Estimator, Measurement, central_differences, check_seed
+from ..registry import register
+from .base import Estimator, Measurement, central_differences
 from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities, sample_group
 
 ALLOCATIONS = ("uniform", "variance")
@@ -43,6 +45,7 @@ def allocate(shots: int, sigmas: np.ndarray, allocation: str, minimum: int = 2) 
     return counts + minimum
 
 
+@register("estimator", "sampled", label="sampled (shots)")
 @dataclass(frozen=True)
 class SampledEstimator(Estimator):
     """``SampledEstimator(shots=10_000, grouping="qwc", allocation="variance", seed=7)``.
@@ -62,17 +65,13 @@ class SampledEstimator(Estimator):
 
     exact = False
 
-    def __post_init__(self) -> None:
-        if isinstance(self.shots, bool) or not isinstance(self.shots, (int, np.integer)) or self.shots <= 0:
-            raise ComponentError(f"shots={self.shots!r} must be a positive integer (total shots per estimate)")
-        if self.grouping not in GROUPINGS:
-            raise ComponentError(f"unknown grouping {self.grouping!r}; accepted: {', '.join(GROUPINGS)}")
-        if self.allocation not in ALLOCATIONS:
-            raise ComponentError(f"unknown allocation {self.allocation!r}; accepted: {', '.join(ALLOCATIONS)}")
-        check_seed("SampledEstimator", self.seed)
-        if isinstance(self.gradient_step, bool) or not (isinstance(self.gradient_step, (int, float))
-                                                         and 0 < self.gradient_step < np.pi):
-            raise ComponentError(f"gradient_step={self.gradient_step!r} must lie in (0, pi) radians")
+    constraints = {
+        "shots": Integer(1),
+        "grouping": OneOf(*GROUPINGS),
+        "allocation": OneOf(*ALLOCATIONS),
+        "seed": Seed(),
+        "gradient_step": Interval(float, 0.0, np.pi, closed="neither", unit="radians"),
+    }
 
     def measure(self, objective: Any, encoding: Any = None) -> SampledMeasurement:
         if encoding is None:

@@ -1,12 +1,13 @@
 """Minimisers: configuration objects whose ``minimise(energy, x0, ...)`` returns a MinimiserOutcome.
 
 Built in: FixedStepDescent, Adam, BFGS, LBFGSB, COBYLA, NelderMead, SPSA. ``minimiser_from_name("bfgs")``
-gives one by name. Energies in Hartree, parameters in radians.
+gives one by name (any minimiser registered with ``groundkit.register("minimiser", ...)``). Energies in Hartree,
+parameters in radians.
 """
 
 from __future__ import annotations
 
-from groundkit.errors import ComponentError
+from groundkit.registry import build, name_of
 
 from .base import Ending, Minimiser, minimiser_options
 from .gradient import Adam, FixedStepDescent
@@ -16,33 +17,13 @@ from .session import Session
 from .spsa import SPSA
 
 BUILT_IN: tuple[type[Minimiser], ...] = (FixedStepDescent, Adam, BFGS, LBFGSB, COBYLA, NelderMead, SPSA)
-MINIMISER_NAMES: tuple[str, ...] = tuple(cls.name for cls in BUILT_IN)
-
-
-def _fold(name: str) -> str:
-    return "".join(ch for ch in name.lower() if ch.isalnum())
-
-
-# class names used before a rename, still accepted by name (files and notebooks written earlier)
-FORMER_CLASS_NAMES: dict[str, type[Minimiser]] = {"GradientDescent": FixedStepDescent}
+MINIMISER_NAMES: tuple[str, ...] = tuple(name_of(cls) for cls in BUILT_IN)
 
 
 def minimiser_from_name(name: str, **options: object) -> Minimiser:
-    """The built-in minimiser called ``name`` (case, '-', '_' and spaces ignored), built with ``options``."""
-    if isinstance(name, str):
-        former = {_fold(old): cls for old, cls in FORMER_CLASS_NAMES.items()}
-        for cls in BUILT_IN:
-            if (_fold(cls.name) == _fold(name) or _fold(cls.__name__) == _fold(name)
-                    or former.get(_fold(name)) is cls):
-                try:
-                    return cls(**options)
-                except TypeError:
-                    accepted = ", ".join(f.name for f in cls.__dataclass_fields__.values())
-                    given = ", ".join(sorted(options))
-                    raise ComponentError(
-                        f"{cls.__name__} does not take option(s) {given}; accepted options: {accepted}"
-                    ) from None
-    raise ComponentError(f"unknown minimiser {name!r}; accepted names: {', '.join(MINIMISER_NAMES)}")
+    """The minimiser registered as ``name`` (case, '-', '_' and spaces ignored; former class names such as
+    'GradientDescent' accepted), built with ``options``."""
+    return build("minimiser", name, **options)
 
 
 __all__ = [

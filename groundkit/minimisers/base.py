@@ -1,7 +1,8 @@
 """The Minimiser base class: options stored and checked at construction, one ``minimise`` for every method.
 
 A subclass is a frozen dataclass of its options (decorate it with :data:`minimiser_options`), sets the class
-attributes ``name`` and ``uses_gradient``, checks its options in ``check_options`` and implements ``search``,
+attribute ``uses_gradient``, declares its options' ``constraints`` (checks across options go in
+``check_options``), is registered by name (``@groundkit.register("minimiser", "my-method")``) and implements ``search``,
 which drives a :class:`~groundkit.minimisers.session.Session` and returns an :class:`Ending`. The base class
 handles the starting vector, zero-parameter problems, Ctrl-C and early halts, and builds the outcome.
 """
@@ -15,9 +16,10 @@ from typing import ClassVar
 
 import numpy as np
 
+from groundkit.component import Component
+from groundkit.constraints import Integer, OrNone, Positive
 from groundkit.errors import ComponentError, ParameterError
 
-from .options import check_count, check_optional_positive, check_positive
 from .records import MinimiserOutcome
 from .session import Callback, EnergyFunction, GradientFunction, Halt, Session
 
@@ -36,7 +38,7 @@ class Ending:
 
 
 @minimiser_options
-class Minimiser(abc.ABC):
+class Minimiser(Component, role="minimiser"):
     """Base of every minimiser. ``max_iterations`` caps the iterations; ``tolerance`` is the method's own test."""
 
     name: ClassVar[str] = "minimiser"
@@ -45,17 +47,8 @@ class Minimiser(abc.ABC):
     max_iterations: int = 500
     tolerance: float = 1e-5
 
-    def __post_init__(self) -> None:
-        owner = type(self).__name__
-        check_count(owner, "max_iterations", self.max_iterations)
-        check_positive(owner, "tolerance", self.tolerance)
-        if hasattr(self, "difference_step"):
-            check_optional_positive(owner, "difference_step", self.difference_step, "radians")
-        self.check_options()
-
-    def check_options(self) -> None:
-        """Refuse options out of range with a ComponentError (subclasses extend; the base has none)."""
-        return None
+    constraints = {"max_iterations": Integer(1), "tolerance": Positive(),
+                   "difference_step": OrNone(Positive(unit="radians"))}
 
     def __repr__(self) -> str:
         changed = []

@@ -8,8 +8,10 @@ from __future__ import annotations
 
 import numpy as np
 
+from groundkit.constraints import Interval, Positive
+from groundkit.registry import register
+
 from .base import Ending, Minimiser, minimiser_options
-from .options import check_half_open, check_positive
 from .session import Session
 
 
@@ -24,6 +26,7 @@ def budget_spent(max_iterations: int, gradient_norm: float | None = None) -> str
     return f"max_iterations={max_iterations} reached{tail}"
 
 
+@register("minimiser", "gradient-descent", aliases=("fixed-step-descent",), label="gradient descent (fixed step)")
 @minimiser_options
 class FixedStepDescent(Minimiser):
     """theta <- theta - step * gradient, with a fixed ``step`` (radians squared per Hartree).
@@ -40,13 +43,13 @@ class FixedStepDescent(Minimiser):
     tolerance: float = 1e-5
     difference_step: float | None = None
 
-    def check_options(self) -> None:
-        check_positive("FixedStepDescent", "step", self.step, "radians squared per Hartree")
+    constraints = {"step": Positive(unit="radians squared per Hartree")}
 
     def search(self, session: Session, x0: np.ndarray) -> Ending:
         return _descend(self, session, x0, lambda gradient, k: self.step * gradient)
 
 
+@register("minimiser", "adam", label="Adam")
 @minimiser_options
 class Adam(Minimiser):
     """Adam (Kingma and Ba, ICLR 2015, arXiv:1412.6980): steps scaled by running moments of the gradient.
@@ -66,11 +69,9 @@ class Adam(Minimiser):
     tolerance: float = 1e-5
     difference_step: float | None = None
 
-    def check_options(self) -> None:
-        check_positive("Adam", "step", self.step, "radians")
-        check_half_open("Adam", "beta1", self.beta1)
-        check_half_open("Adam", "beta2", self.beta2)
-        check_positive("Adam", "epsilon", self.epsilon, "Hartree per radian")
+    constraints = {"step": Positive(unit="radians"), "beta1": Interval(float, 0.0, 1.0, closed="left"),
+                   "beta2": Interval(float, 0.0, 1.0, closed="left"),
+                   "epsilon": Positive(unit="Hartree per radian")}
 
     def search(self, session: Session, x0: np.ndarray) -> Ending:
         first = np.zeros_like(x0)

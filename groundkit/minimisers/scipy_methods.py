@@ -13,11 +13,12 @@ import math
 import numpy as np
 from scipy.optimize import minimize
 
+from groundkit.constraints import Bool, Integer, Interval, OrNone, Pair, Positive
 from groundkit.errors import ParameterError
+from groundkit.registry import register
 
 from .base import Ending, Minimiser, minimiser_options
 from .gradient import budget_spent, gradient_converged
-from .options import check_bounds, check_count, check_flag, check_positive
 from .session import Session
 
 
@@ -56,6 +57,7 @@ def _final_gradient(session: Session, x: np.ndarray) -> tuple[float, np.ndarray]
     return session.energy_and_gradient(x)  # cached: SciPy evaluated its final point
 
 
+@register("minimiser", "bfgs", label="BFGS")
 @minimiser_options
 class BFGS(Minimiser):
     """Quasi-Newton BFGS with SciPy's line search (Nocedal and Wright, Numerical Optimization, ch. 6).
@@ -78,6 +80,7 @@ class BFGS(Minimiser):
         return _gradient_ending(self, session, result, lambda x, g: g)
 
 
+@register("minimiser", "l-bfgs-b", label="L-BFGS-B")
 @minimiser_options
 class LBFGSB(Minimiser):
     """Limited-memory BFGS with optional box bounds, SciPy's L-BFGS-B (Byrd, Lu, Nocedal, Zhu, SIAM J. Sci.
@@ -99,10 +102,8 @@ class LBFGSB(Minimiser):
     bounds: tuple[float, float] | None = None
     difference_step: float | None = None
 
-    def check_options(self) -> None:
-        check_positive("LBFGSB", "energy_tolerance", self.energy_tolerance, "relative")
-        check_count("LBFGSB", "memory", self.memory)
-        check_bounds("LBFGSB", self.bounds)
+    constraints = {"energy_tolerance": Positive(unit="relative"), "memory": Integer(1),
+                   "bounds": OrNone(Pair(Interval(float, allow_infinite=True), unit="radians"))}
 
     def search(self, session: Session, x0: np.ndarray) -> Ending:
         box = None
@@ -155,6 +156,7 @@ def _gradient_ending(method: Minimiser, session: Session, result, projected) -> 
     ))
 
 
+@register("minimiser", "cobyla", label="COBYLA")
 @minimiser_options
 class COBYLA(Minimiser):
     """Powell's derivative-free COBYLA (Powell, Advances in Optimization and Numerical Analysis, 1994, p. 51).
@@ -171,8 +173,7 @@ class COBYLA(Minimiser):
     tolerance: float = 1e-6
     initial_step: float = 0.5
 
-    def check_options(self) -> None:
-        check_positive("COBYLA", "initial_step", self.initial_step, "radians")
+    constraints = {"initial_step": Positive(unit="radians")}
 
     def search(self, session: Session, x0: np.ndarray) -> Ending:
         options = {"rhobeg": self.initial_step, "tol": self.tolerance,
@@ -186,6 +187,7 @@ class COBYLA(Minimiser):
         return Ending(np.array(result.x, dtype=float), float(result.fun), False, f"COBYLA stopped: {result.message}")
 
 
+@register("minimiser", "nelder-mead", label="Nelder–Mead")
 @minimiser_options
 class NelderMead(Minimiser):
     """The Nelder-Mead simplex method (Nelder and Mead, Comput. J. 7, 308 (1965)), SciPy's implementation.
@@ -205,10 +207,8 @@ class NelderMead(Minimiser):
     initial_step: float = 0.1
     adaptive: bool = False
 
-    def check_options(self) -> None:
-        check_positive("NelderMead", "parameter_tolerance", self.parameter_tolerance, "radians")
-        check_positive("NelderMead", "initial_step", self.initial_step, "radians")
-        check_flag("NelderMead", "adaptive", self.adaptive)
+    constraints = {"parameter_tolerance": Positive(unit="radians"), "initial_step": Positive(unit="radians"),
+                   "adaptive": Bool()}
 
     def search(self, session: Session, x0: np.ndarray) -> Ending:
         simplex = np.vstack([x0, x0 + self.initial_step * np.eye(x0.size)])

@@ -10,12 +10,15 @@ import math
 
 import numpy as np
 
+from groundkit.constraints import Integer, Interval, OrNone, Positive, Seed
+from groundkit.registry import register
+
 from .base import Ending, Minimiser, minimiser_options
 from .gradient import budget_spent
-from .options import check_between, check_count, check_non_negative, check_positive, check_seed
 from .session import Session
 
 
+@register("minimiser", "spsa", label="SPSA")
 @minimiser_options
 class SPSA(Minimiser):
     """SPSA with Spall's gain sequences a_k = a / (k + 1 + A)^alpha and c_k = c / (k + 1)^gamma, k = 0, 1, ...
@@ -46,15 +49,15 @@ class SPSA(Minimiser):
     max_iterations: int = 500
     tolerance: float = 1e-5
 
-    def check_options(self) -> None:
-        check_seed("SPSA", self.seed)
-        check_positive("SPSA", "a", self.a, "radians squared per Hartree")
-        check_positive("SPSA", "c", self.c, "radians")
-        check_between("SPSA", "alpha", self.alpha, 0.0, 1.0, "0 < alpha <= 1")
-        check_between("SPSA", "gamma", self.gamma, 0.0, 0.5, "0 < gamma <= 0.5")
-        if self.A is not None:
-            check_non_negative("SPSA", "A", self.A)
-        check_count("SPSA", "window", self.window)
+    constraints = {
+        "seed": Seed(),
+        "a": Positive(unit="radians squared per Hartree"),
+        "c": Positive(unit="radians"),
+        "alpha": Interval(float, 0.0, 1.0, closed="right"),
+        "gamma": Interval(float, 0.0, 0.5, closed="right"),
+        "A": OrNone(Interval(float, 0.0, None)),
+        "window": Integer(1),
+    }
 
     @property
     def stability(self) -> float:

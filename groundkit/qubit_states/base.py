@@ -15,18 +15,19 @@ A qubit trial state is a component (its constructor only stores options). Given 
 
 from __future__ import annotations
 
-from abc import ABC, abstractmethod
+from abc import abstractmethod
 from typing import Any
 
 import cirq
 import numpy as np
 import sympy
 
+from ..component import Component
 from ..errors import ComponentError, ParameterError
 from .program import StateProgram
 
 
-class QubitTrialState(ABC):
+class QubitTrialState(Component, role="trial_state"):
     """Base class of trial states that act on the qubit register directly; see the module docstring."""
 
     @abstractmethod

@@ -11,9 +11,11 @@ import numpy as np
 import sympy
 
 from ..errors import ComponentError, ParameterError
+from ..registry import register
 from .base import QubitTrialState
 
 
+@register("trial_state", "circuit", aliases=("cirq-circuit",), label="your Cirq circuit", listed=False)
 @dataclass(frozen=True, init=False)
 class CircuitTrialState(QubitTrialState):
     """``CircuitTrialState(circuit, symbols=None, initial=None)``.

@@ -13,8 +13,8 @@ import cirq
 import numpy as np
 import sympy
 
-from ..errors import ComponentError
-from ..trial_states.options import check_choice, check_flag
+from ..constraints import Bool, Integer, Interval, ListOf, OneOf, Seed
+from ..registry import register
 from .base import QubitTrialState
 
 ROTATIONS = {"rx": cirq.rx, "ry": cirq.ry, "rz": cirq.rz}
@@ -22,6 +22,7 @@ ENTANGLERS = ("cz", "cnot")
 STARTS = ("reference", "zeros")
 
 
+@register("trial_state", "hardware-efficient", label="hardware-efficient")
 @dataclass(frozen=True, kw_only=True)
 class HardwareEfficient(QubitTrialState):
     """``HardwareEfficient(layers=2, rotations=("ry", "rz"), entangler="cnot", ring=False, init="reference")``.
@@ -48,27 +49,15 @@ class HardwareEfficient(QubitTrialState):
     jitter: float = 0.1
     seed: int = 0
 
-    def __post_init__(self) -> None:
-        owner = "HardwareEfficient"
-        if isinstance(self.layers, bool) or not isinstance(self.layers, int) or not 0 <= self.layers <= 64:
-            raise ComponentError(f"{owner}(layers={self.layers!r}): layers must be an integer from 0 to 64")
-        try:
-            rotations = (self.rotations,) if isinstance(self.rotations, str) else tuple(self.rotations)
-        except TypeError:
-            rotations = ()
-        if not rotations or any(not isinstance(r, str) or r not in ROTATIONS for r in rotations):
-            raise ComponentError(
-                f"{owner}(rotations={self.rotations!r}): give one or more of {', '.join(map(repr, ROTATIONS))}"
-            )
-        object.__setattr__(self, "rotations", rotations)
-        check_choice(owner, "entangler", self.entangler, ENTANGLERS)
-        check_flag(owner, "ring", self.ring)
-        check_choice(owner, "init", self.init, STARTS)
-        if isinstance(self.jitter, bool) or not isinstance(self.jitter, (int, float)) or not (
-                np.isfinite(self.jitter) and self.jitter >= 0):
-            raise ComponentError(f"{owner}(jitter={self.jitter!r}): jitter must be a finite number >= 0 (radians)")
-        if isinstance(self.seed, bool) or not isinstance(self.seed, int) or self.seed < 0:
-            raise ComponentError(f"{owner}(seed={self.seed!r}): seed must be an integer >= 0")
+    constraints = {
+        "layers": Integer(0, 64),
+        "rotations": ListOf(OneOf(*ROTATIONS), min_length=1, single=True),
+        "entangler": OneOf(*ENTANGLERS),
+        "ring": Bool(),
+        "init": OneOf(*STARTS),
+        "jitter": Interval(float, 0.0, None, unit="radians"),
+        "seed": Seed(optional=False),
+    }
 
     def _pairs(self, n: int) -> list[tuple[int, int]]:
         pairs = [(k, k + 1) for k in range(n - 1)]

@@ -30,6 +30,7 @@ import numpy as np
 import sympy
 
 from ..errors import ComponentError
+from ..registry import register
 from .base import QubitTrialState
 
 PauliTerm = tuple[tuple[int, str], ...]
@@ -155,6 +156,7 @@ class RotationProgram:
         return energy, gradient
 
 
+@register("trial_state", "pauli-rotations", label="Pauli rotations", listed=False)
 @dataclass(frozen=True, init=False)
 class PauliRotations(QubitTrialState):
     """``PauliRotations(["Y0 X2", "X0 X1 X2 Y3", ...])``: exp(i·θ_K·P_K)…exp(i·θ_1·P_1)|reference⟩.

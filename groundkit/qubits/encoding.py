@@ -36,8 +36,8 @@ class QubitEncoding:
         self.problem = problem
         self.mapping = mapping
         self.n_modes = 2 * int(problem.n_orbitals)
-        self.matrix = basis_matrix(mapping.name, self.n_modes)
-        self._untapered = fermion_to_qubit(problem.fermion_hamiltonian(), mapping.name, self.n_modes)
+        self.matrix = basis_matrix(mapping, self.n_modes)
+        self._untapered = fermion_to_qubit(problem.fermion_hamiltonian(), mapping, self.n_modes)
         self._untapered.compress(abs_tol=1e-12)
         self.taper: Taper | None = None
         if mapping.taper:
@@ -132,7 +132,7 @@ class QubitEncoding:
     # operators ----------------------------------------------------------------------------------------------
     def encode(self, operator: Any) -> QubitOperator:
         """Image of a fermion operator (FermionOperator or InteractionOperator) on this register."""
-        image = fermion_to_qubit(operator, self.mapping.name, self.n_modes)
+        image = fermion_to_qubit(operator, self.mapping, self.n_modes)
         image.compress(abs_tol=1e-12)
         return self.taper.apply(image) if self.taper else image
 

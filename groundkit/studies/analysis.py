@@ -120,10 +120,13 @@ def diatomic_wavenumber(scan: Any, masses: tuple[float, float] | None = None, co
 
 
 def non_parallelity(table: Any) -> dict[str, float]:
-    """max(E − E_exact) − min(E − E_exact) (Ha) along the curve for 'energy' and each baseline column."""
+    """max(E − E_exact) − min(E − E_exact) (Ha) along the curve for 'energy' and each baseline column (the
+    baseline names are those of :data:`groundkit.baselines.METHODS`, the one list of them)."""
+    from groundkit.baselines import METHODS
+
     reference = table["reference"].to_numpy(dtype=float)
     ok = np.isfinite(reference)
-    columns = ["energy"] + [c for c in table.columns if c in ("hf", "mp2", "cisd", "ccsd", "ccsd(t)", "casci", "fci")]
+    columns = ["energy"] + [c for c in table.columns if c in METHODS]
     out = {}
     for column in columns:
         values = table[column].to_numpy(dtype=float)

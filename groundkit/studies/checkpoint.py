@@ -33,6 +33,7 @@ from groundkit.errors import CheckpointBusyError, CheckpointWarning, ResultFileE
 from groundkit.file_reading import path_text, plain_fault, shown
 
 from .errors import CheckpointError
+from .former_names import former_descriptions
 from .scan_persistence import point_from_dict, point_to_dict, read_json, read_manifest, write_json_atomic
 from .scan_result import ScanPoint
 from .work import INTERRUPTED
@@ -43,6 +44,7 @@ SET_ASIDE = "set-aside"
 MANIFEST_SCHEMA = "groundkit.scan-checkpoint"
 POINT_SCHEMA = "groundkit.scan-point"
 VERSION = file_schemas.CHECKPOINT_VERSION
+READABLE_VERSIONS = file_schemas.CHECKPOINT_VERSIONS  # version 1: point files of earlier releases, no checksum
 
 
 def fingerprint(description: dict[str, Any]) -> str:
@@ -141,11 +143,14 @@ class CheckpointStore:
             raise CheckpointError(str(err)) from None
         if not isinstance(manifest, dict) or manifest.get("schema") != MANIFEST_SCHEMA:
             raise CheckpointError(f"{path}: not a groundkit checkpoint manifest (schema {MANIFEST_SCHEMA!r})")
-        if manifest.get("version") != VERSION:
+        if manifest.get("version") not in READABLE_VERSIONS:
             raise CheckpointError(
-                f"{path}: checkpoint version {manifest.get('version')!r}; this groundkit reads version {VERSION} "
-                "(point files with checksums); give a new directory, or delete the old one to start again"
+                f"{path}: checkpoint version {manifest.get('version')!r}; this groundkit reads versions "
+                f"{', '.join(map(str, READABLE_VERSIONS))}; give a new directory, or delete the old one to start again"
             )
+        former = [fingerprint(d) for d in former_descriptions(self.description)]
+        if manifest.get("fingerprint") in former:  # written before a class rename: resume under its fingerprint
+            self.fingerprint = manifest["fingerprint"]
         if manifest.get("fingerprint") != self.fingerprint:
             raise CheckpointError(
                 f"checkpoint directory {self.directory!r} belongs to another scan configuration "
@@ -187,8 +192,10 @@ class CheckpointStore:
             data = read_json(path, "a groundkit scan point")
         except ResultFileError as err:
             return None, str(err).removeprefix(f"{path}: ")
-        if not isinstance(data, dict) or data.get("schema") != POINT_SCHEMA or data.get("version") != VERSION:
-            return None, f"not a groundkit scan point (schema {POINT_SCHEMA!r}, version {VERSION})"
+        if (not isinstance(data, dict) or data.get("schema") != POINT_SCHEMA
+                or data.get("version") not in READABLE_VERSIONS or isinstance(data.get("version"), bool)):
+            return None, (f"not a groundkit scan point (schema {POINT_SCHEMA!r}, version "
+                          f"{' or '.join(map(str, READABLE_VERSIONS))})")
         if data.get("fingerprint") != self.fingerprint:
             return None, "written by another scan configuration (its fingerprint differs from the manifest's)"
         record = data.get("point")
@@ -197,7 +204,8 @@ class CheckpointStore:
             return None, (f"holds NaN or infinity, which groundkit never writes (point."
                           f"{path_text(unreadable.path)} is {shown(unreadable.value)})")
         checksum = content_checksum(data["fingerprint"], record)
-        if data.get("checksum") != checksum:
+        legacy = data["version"] == 1 and "checksum" not in data  # written before checksums; checked below
+        if data.get("checksum") != checksum and not legacy:
             return None, ("its checksum does not match its content (edited or damaged after it was written)"
                           if "checksum" in data else "it has no checksum (not written by this groundkit)")
         if not isinstance(record, dict):

@@ -8,7 +8,15 @@ import re
 from typing import Any
 
 from groundkit import file_checks, file_schemas
-from groundkit.errors import BasisError, ChargeError, ElementError, GeometryError, GroundkitError, MultiplicityError
+from groundkit.errors import (
+    BasisError,
+    ChargeError,
+    ElementError,
+    GeometryError,
+    GroundkitError,
+    MultiplicityError,
+    ResultFileError,
+)
 from groundkit.file_reading import FieldFault, Path, as_json, plain_fault, schema_fault, validate
 from groundkit.molecule import MoleculeSpec
 from groundkit.persistence import build_result, read_json, result_to_dict, write_json_atomic
@@ -143,3 +151,48 @@ def load_scan(path: str | os.PathLike) -> ScanResult:
     what is accepted (the schema is :data:`groundkit.file_schemas.SCAN`)."""
     data = read_json(path, "a groundkit scan saved by ScanResult.save")
     return scan_from_dict(data, source=str(path), parsed=True)
+
+
+# rebuilding the scan ---------------------------------------------------------------------------------------------
+def scan_pipeline(scan: ScanResult, source: str = "this scan") -> Any:
+    """The scan's Pipeline without a molecule (``Pipeline().trial_state(...)...``), rebuilt from the component
+    records of its points' provenance; ResultFileError when no point has a result, or the points were written
+    before component records existed."""
+    from groundkit.records import pipeline_from_provenance
+
+    finished = [p for p in scan.points if p.result is not None]
+    if not finished:
+        raise ResultFileError(f"{source}: no point has a result, so no component record to rebuild the pipeline from")
+    return pipeline_from_provenance(finished[0].result.provenance, f"{source} (point {finished[0].index})",
+                                    molecule=False)
+
+
+class StoredGeometries:
+    """The geometry function of a finished scan: each scan value gives back the MoleculeSpec stored for it.
+
+    Picklable (a dict of molecules), so it runs in process pools; a value the scan did not have, or one whose
+    geometry failed, raises ``ScanInputError`` (recorded as that point's failure)."""
+
+    def __init__(self, scan: ScanResult) -> None:
+        self.molecules = {float(p.value): p.molecule for p in scan.points}
+
+    def __call__(self, value: float) -> MoleculeSpec:
+        from .errors import ScanInputError
+
+        molecule = self.molecules.get(float(value))
+        if molecule is None:
+            known = ", ".join(f"{v:g}" for v in self.molecules)
+            raise ScanInputError(f"the stored scan has no molecule for value {value!r}; its values: {known}")
+        return molecule
+
+
+def warm_start_setting(label: str) -> bool | int:
+    """The ``warm_start`` argument of a scan's stored label ('off', '1 chain', '3 chains')."""
+    if label == "off":
+        return False
+    if label == "1 chain":
+        return True
+    count = label.split()[0]
+    if label.endswith(" chains") and count.isdigit():
+        return int(count)
+    raise ResultFileError(f"warm start {label!r} is not one of 'off', '1 chain', 'k chains'")

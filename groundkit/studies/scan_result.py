@@ -180,6 +180,26 @@ class ScanResult:
                 lines.append(f"{p.value:>12.6g}  failed: {p.failure}")
         return "\n".join(lines)
 
+    def pipeline(self) -> Any:
+        """The scan's Pipeline (components only, no molecule), rebuilt from its points' component records."""
+        from .scan_persistence import scan_pipeline
+
+        return scan_pipeline(self)
+
+    def geometry(self) -> Any:
+        """A geometry function giving back each point's stored molecule for its value (picklable)."""
+        from .scan_persistence import StoredGeometries
+
+        return StoredGeometries(self)
+
+    def rerun(self, *, checkpoint: str | None = None, executor: Any = None) -> ScanResult:
+        """Run the scan again from its records: ``self.pipeline().scan(self.geometry(), self.values,
+        warm_start=...)`` with the stored warm-start chaining."""
+        from .scan_persistence import warm_start_setting
+
+        return self.pipeline().scan(self.geometry(), list(self.values), checkpoint=checkpoint, executor=executor,
+                                    warm_start=warm_start_setting(self.warm_start))
+
     def save(self, path: str) -> None:
         """Write the scan as JSON, atomically (schema 'groundkit.scan-result', version 1)."""
         from .scan_persistence import save_scan

@@ -4,8 +4,13 @@ Layout (every table but ``[molecule]`` optional)::
 
     title = "H2 stretch"
     [molecule]        symbols, coordinates | xyz | xyz_file, basis, charge, multiplicity, unit, name
-    [active_space]    electrons, orbitals, indices, frozen_core
-    [components]      mapping, trial_state, estimator, minimiser: a name, or {name = "...", option = ...}
+    [active_space]    the options of ActiveSpace (electrons, orbitals, indices, frozen_core, ...), or name = "..."
+                      of a registered active space with its options
+    [components]      mapping, trial_state, estimator, minimiser: a registered name (built-in or a user's), or
+                      {name = "...", option = ...}; nested components the same way, e.g. pool = "generalised"
+
+Component options are checked by the component classes themselves (one mechanism, see docs/components.md):
+an unknown option names the key, its line and the accepted options.
     [scan]            bond = [i, j]; values = [...] or start, stop, points; warm_start; executor
     [output]          directory (default: the file's name without .toml, beside it)
 """
@@ -25,7 +30,6 @@ from .errors import StudyFileError
 KEYS: dict[str, tuple[str, ...]] = {
     "": ("title", "molecule", "active_space", "components", "scan", "output"),
     "molecule": ("symbols", "coordinates", "xyz", "xyz_file", "basis", "charge", "multiplicity", "unit", "name"),
-    "active_space": ("electrons", "orbitals", "indices", "frozen_core"),
     "components": ("mapping", "trial_state", "estimator", "minimiser"),
     "scan": ("bond", "values", "start", "stop", "points", "warm_start", "executor"),
     "output": ("directory",),
@@ -94,6 +98,8 @@ class _Reader:
         return StudyFileError(f"{self.source}: {where}{at}: {message}{self.lines.quote(line)}")
 
     def check_keys(self, table: str, data: dict) -> None:
+        if table not in KEYS:  # options of a component: its class checks them
+            return
         for key in data:
             if key not in KEYS[table]:
                 accepted = ", ".join(KEYS[table])
@@ -182,19 +188,18 @@ def _molecule(r: _Reader, table: dict, folder: str) -> Any:
 
 
 def _pipeline(r: _Reader, molecule: Any, space: dict | None, components: dict) -> Any:
-    from groundkit.active_space import ActiveSpace
     from groundkit.pipeline import Pipeline
 
     pipeline = Pipeline(molecule)
     if space is not None:
         options = dict(space)
-        if "indices" in options:
-            options["indices"] = tuple(options["indices"]) if isinstance(options["indices"], list) else \
-                options["indices"]
+        name = options.pop("name", "active-space")
         try:
-            pipeline = pipeline.active_space(ActiveSpace(**options))
+            pipeline = pipeline.active_space(name, **options)
         except GroundkitError as err:
-            raise r.fail("active_space", None, str(err)) from None
+            key = _refused_key(name, "active_space", options) or next(
+                (k for k in options if f"({k}=" in str(err)), None)
+            raise r.fail("active_space", key, str(err)) from None
     for role in KEYS["components"]:
         if role not in components:
             continue
@@ -208,9 +213,20 @@ def _pipeline(r: _Reader, molecule: Any, space: dict | None, components: dict) -
             raise r.fail("components", role, f"{value!r} is neither a name nor {{name = \"...\", option = ...}}")
         try:
             pipeline = getattr(pipeline, role)(name, **options)
-        except (GroundkitError, TypeError) as err:
+        except GroundkitError as err:
             raise r.fail("components", role, str(err)) from None
     return pipeline
+
+
+def _refused_key(name: Any, role: str, options: dict) -> str | None:
+    """The first option key the named class does not take (for the line number), else None."""
+    from groundkit.registry import lookup
+
+    try:
+        accepted = lookup(role, name).accepted_options()
+    except GroundkitError:
+        return "name"
+    return next((k for k in options if k not in accepted), None)
 
 
 def _scan(r: _Reader, table: dict, molecule: Any) -> ScanPlan:

@@ -16,13 +16,14 @@ whichever of the others it needs; :meth:`TrialState.plan` checks and assembles t
 
 from __future__ import annotations
 
-from abc import ABC, abstractmethod
+from abc import abstractmethod
 from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
 
+from groundkit.component import Component
 from groundkit.errors import ComponentError, ParameterError
 from groundkit.sector.excitation import Excitation, check_excitations
 from groundkit.sector.space import lowest_strings
@@ -70,7 +71,7 @@ class ExcitationPlan:
         return np.bincount(index, weights=weights, minlength=self.n_parameters)[: self.n_parameters]
 
 
-class TrialState(ABC):
+class TrialState(Component, role="trial_state"):
     """Base class of fermionic trial states; see the module docstring for the subclass API."""
 
     @abstractmethod

@@ -7,10 +7,12 @@ from dataclasses import dataclass
 from typing import Any
 
 from groundkit.errors import ExcitationError
+from groundkit.registry import register
 from groundkit.sector.excitation import Excitation, as_excitation
 from groundkit.trial_states.base import TrialState
 
 
+@register("trial_state", "excitation-list", label="excitation list", listed=False)
 @dataclass(frozen=True, init=False)
 class ExcitationList(TrialState):
     """Exponentials of the given excitations on the Hartree-Fock determinant, first listed acts first.
@@ -25,6 +27,10 @@ class ExcitationList(TrialState):
         if isinstance(excitations, (str, bytes)) or not hasattr(excitations, "__iter__"):
             raise ExcitationError(f"ExcitationList({excitations!r}): give a list of (creators, annihilators) pairs")
         object.__setattr__(self, "excitations_given", tuple(as_excitation(e) for e in excitations))
+
+    def options(self) -> dict[str, Any]:
+        """``{"excitations": [...]}``, the constructor's argument."""
+        return {"excitations": self.excitations_given}
 
     def __repr__(self) -> str:
         items = ", ".join(repr((e.creators, e.annihilators)) for e in self.excitations_given)

@@ -7,6 +7,8 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 from typing import Any
 
+from groundkit.constraints import Integer
+from groundkit.registry import register
 from groundkit.sector.excitation import Excitation
 from groundkit.trial_states.base import TrialState
 from groundkit.trial_states.excitation_sets import (
@@ -15,9 +17,9 @@ from groundkit.trial_states.excitation_sets import (
     paired_doubles,
     spin_flip_sharing,
 )
-from groundkit.trial_states.options import check_positive_int
 
 
+@register("trial_state", "pair-doubles", aliases=("puccd",), label="pair doubles (pUCCD)")
 @dataclass(frozen=True)
 class PairDoubles(TrialState):
     """Pair doubles only: each moves both electrons of a doubly occupied orbital i into an empty orbital a.
@@ -31,6 +33,7 @@ class PairDoubles(TrialState):
         return paired_doubles(alpha, beta, int(problem.n_orbitals))
 
 
+@register("trial_state", "upccgsd", aliases=("k-upccgsd",), label="k-UpCCGSD")
 @dataclass(frozen=True, kw_only=True)
 class UpCCGSD(TrialState):
     """k layers of generalised pair doubles and generalised singles.
@@ -42,8 +45,7 @@ class UpCCGSD(TrialState):
 
     k: int = 1
 
-    def __post_init__(self) -> None:
-        check_positive_int("UpCCGSD", "k", self.k)
+    constraints = {"k": Integer(1, 64)}
 
     def excitations(self, problem: Any) -> list[Excitation]:
         """k copies of (pair doubles, singles)."""

@@ -8,7 +8,9 @@ from typing import Any
 
 import numpy as np
 
+from groundkit.constraints import Bool, OneOf
 from groundkit.errors import ComponentError
+from groundkit.registry import register
 from groundkit.sector.excitation import Excitation
 from groundkit.sector.hamiltonian import SectorHamiltonian
 from groundkit.sector.perturbation import first_order_amplitudes, orbital_energies
@@ -16,9 +18,9 @@ from groundkit.sector.space import Sector
 from groundkit.sector.tables import excitation_tables
 from groundkit.trial_states.base import ExcitationPlan, TrialState
 from groundkit.trial_states.excitation_sets import reference_doubles, reference_singles, spin_flip_sharing
-from groundkit.trial_states.options import check_choice, check_flag
 
 
+@register("trial_state", "uccsd", label="UCCSD")
 @dataclass(frozen=True, kw_only=True)
 class UCCSD(TrialState):
     """All Sz-conserving singles and doubles from the reference, closed or open shell.
@@ -37,9 +39,7 @@ class UCCSD(TrialState):
     spin_adapted: bool = False
     init: str = "zeros"
 
-    def __post_init__(self) -> None:
-        check_flag("UCCSD", "spin_adapted", self.spin_adapted)
-        check_choice("UCCSD", "init", self.init, ("zeros", "mp2"))
+    constraints = {"spin_adapted": Bool(), "init": OneOf("zeros", "mp2")}
 
     def excitations(self, problem: Any) -> list[Excitation]:
         """Doubles, then singles, from the reference determinant."""

@@ -4,13 +4,14 @@ from __future__ import annotations
 
 import html
 import time
+from dataclasses import replace
 from typing import Any
 
 import ipywidgets as widgets
 
 from ..active_space import ActiveSpace
 from ..errors import ComponentError
-from ..mapping import MAPPINGS, QubitMapping
+from ..mapping import QubitMapping
 from . import palette
 from .html import table, verdict_html
 from .live import RunView
@@ -18,18 +19,42 @@ from .live import RunView
 _WIDE = {"description_width": "120px"}
 
 
-def _trial_states() -> list[tuple[str, Any]]:
-    from ..trial_states import UCCSD, PairDoubles, ReferenceDeterminant, UpCCGSD
+def _listed(role: str) -> list[tuple[str, Any]]:
+    """(label, component with default options) of every class the registry lists for ``role``; a class that
+    cannot be built without options is left out."""
+    from ..errors import GroundkitError
+    from ..registry import entries
 
-    return [("UCCSD", UCCSD()), ("pair doubles (pUCCD)", PairDoubles()), ("k-UpCCGSD, k=1", UpCCGSD(k=1)),
-            ("k-UpCCGSD, k=2", UpCCGSD(k=2)), ("Hartree–Fock only", ReferenceDeterminant())]
+    options = []
+    for entry in entries(role, listed_only=True):
+        try:
+            options.append((entry.label, entry.cls()))
+        except (GroundkitError, TypeError):  # needs options (TypeError: a user class with a custom __init__)
+            continue
+    return options
+
+
+def _trial_states() -> list[tuple[str, Any]]:
+    return _listed("trial_state")
 
 
 def _minimisers() -> list[tuple[str, Any]]:
-    from ..minimisers import BFGS, COBYLA, LBFGSB, SPSA, Adam, FixedStepDescent, NelderMead
+    return _listed("minimiser")
 
-    return [("BFGS", BFGS()), ("L-BFGS-B", LBFGSB()), ("COBYLA", COBYLA()), ("Nelder–Mead", NelderMead()),
-            ("SPSA (seed 3)", SPSA(seed=3)), ("Adam", Adam()), ("gradient descent", FixedStepDescent())]
+
+def _mappings() -> list[tuple[str, str]]:
+    from ..registry import entries
+
+    return [(e.label, e.name) for e in entries("mapping", listed_only=True)]
+
+
+def _chosen(options: list[tuple[str, Any]], resolved: Any) -> Any:
+    """The pipeline's (resolved) component when it is among the options (moved to the top), else the first."""
+    for k, (_label, value) in enumerate(options):
+        if value == resolved:
+            options.insert(0, options.pop(k))
+            return value
+    return options[0][1]
 
 
 def _with_own(options: list[tuple[str, Any]], own: Any) -> list[tuple[str, Any]]:
@@ -59,17 +84,24 @@ class Explorer(widgets.VBox):
         self.electrons = widgets.IntText(value=space.n_electrons, description="active electrons", style=_WIDE)
         self.orbitals = widgets.IntText(value=space.n_orbitals, description="active orbitals", style=_WIDE)
         mapping = resolved["mapping"]
-        self.mapping = widgets.Dropdown(options=list(MAPPINGS), value=mapping.name, description="mapping",
+        mapping_options: list[tuple[str, Any]] = _mappings()
+        own_mapping = mapping.untapered()
+        if any(value == mapping.name and QubitMapping(value) == own_mapping for _, value in mapping_options):
+            mapping_value: Any = mapping.name
+        else:  # a mapping with options of its own, or one the registry does not list
+            mapping_value = own_mapping
+            mapping_options.insert(0, (f"pipeline's own: {own_mapping!r}", own_mapping))
+        self.mapping = widgets.Dropdown(options=mapping_options, value=mapping_value, description="mapping",
                                         style=_WIDE)
         self.taper = widgets.Checkbox(value=bool(mapping.taper), description="taper symmetry qubits")
         trial_options = _with_own(_trial_states(), own["trial_state"])
-        self.trial_state = widgets.Dropdown(options=trial_options, value=resolved["trial_state"]
-                                            if own["trial_state"] is not None else trial_options[0][1],
+        self.trial_state = widgets.Dropdown(options=trial_options,
+                                            value=_chosen(trial_options, resolved["trial_state"]),
                                             description="trial state", style=_WIDE)
-        self.estimator, self.shots, self.seed = self._estimator_widgets(own["estimator"])
+        self.estimator, self.shots, self.seed = self._estimator_widgets(own["estimator"], resolved["estimator"])
         minimiser_options = _with_own(_minimisers(), own["minimiser"])
-        self.minimiser = widgets.Dropdown(options=minimiser_options, value=resolved["minimiser"]
-                                          if own["minimiser"] is not None else minimiser_options[0][1],
+        self.minimiser = widgets.Dropdown(options=minimiser_options,
+                                          value=_chosen(minimiser_options, resolved["minimiser"]),
                                           description="minimiser", style=_WIDE)
         self.run_button = widgets.Button(description="Run this configuration", button_style="primary",
                                          icon="play", layout=widgets.Layout(width="220px"))
@@ -89,17 +121,25 @@ class Explorer(widgets.VBox):
         super().__init__([selectors, self.view_area, widgets.HTML("<b>Runs so far</b>"), self.table_area])
         self.add_class("groundkit-explorer")
 
-    def _estimator_widgets(self, own: Any) -> tuple[Any, Any, Any]:
-        from ..estimators import SampledEstimator
+    def _estimator_widgets(self, own: Any, default: Any) -> tuple[Any, Any, Any]:
+        """The estimator selector (registered estimators by label) and the shots and seed fields, which apply to
+        every estimator that takes those options."""
+        from ..registry import entries, entry_of
 
-        options: list[tuple[str, Any]] = [("exact energies", "exact"), ("sampled (shots)", "sampled")]
-        value: Any = "exact"
+        options: list[tuple[str, Any]] = [(e.label, e.name) for e in entries("estimator", listed_only=True)]
+        default_entry = entry_of(default)
+        value: Any = _chosen(options, default_entry.name) if default_entry is not None else options[0][1]
         shots, seed = 10_000, 7
-        if isinstance(own, SampledEstimator):
-            value, shots, seed = "sampled", own.shots, own.seed if own.seed is not None else 7
-        elif own is not None and type(own).__name__ != "ExactEstimator":
-            options.insert(0, (f"pipeline's own: {own!r}", own))
-            value = own
+        if own is not None:
+            entry = entry_of(own)
+            shared = {k: getattr(own, k) for k in ("shots", "seed") if k in type(own).accepted_options()}
+            if entry is not None and entry.listed and type(own)(**shared) == own and \
+                    shared.get("shots", 1) is not None and shared.get("seed", 1) is not None:
+                value = entry.name
+                shots, seed = shared.get("shots", shots), shared.get("seed", seed)
+            else:
+                options.insert(0, (f"pipeline's own: {own!r}", own))
+                value = own
         return (widgets.Dropdown(options=options, value=value, description="estimator", style=_WIDE),
                 widgets.IntText(value=shots, description="shots", layout=widgets.Layout(width="200px")),
                 widgets.IntText(value=seed, description="seed", layout=widgets.Layout(width="160px")))
@@ -111,12 +151,20 @@ class Explorer(widgets.VBox):
         space = self._own_space if counts == self._own_counts else ActiveSpace(electrons=counts[0],
                                                                                   orbitals=counts[1])
         estimator = self.estimator.value
-        if estimator == "sampled":
-            from ..estimators import SampledEstimator
+        if isinstance(estimator, str):
+            from ..registry import lookup
 
-            estimator = SampledEstimator(shots=int(self.shots.value), seed=int(self.seed.value))
-        p = self.pipeline.active_space(space).mapping(QubitMapping(self.mapping.value, taper=self.taper.value))
-        p = p.trial_state(self.trial_state.value).estimator(estimator).minimiser(self.minimiser.value)
+            cls = lookup("estimator", estimator)
+            given = {"shots": int(self.shots.value), "seed": int(self.seed.value)}
+            estimator = cls(**{k: v for k, v in given.items() if k in cls.accepted_options()})
+        minimiser = self.minimiser.value
+        if "seed" in type(minimiser).accepted_options() and getattr(minimiser, "seed", 0) is None:
+            minimiser = replace(minimiser, seed=int(self.seed.value))  # every random thing takes a seed
+        mapping = self.mapping.value
+        mapping = QubitMapping(mapping, taper=self.taper.value) if isinstance(mapping, str) else \
+            replace(mapping, taper=self.taper.value)
+        p = self.pipeline.active_space(space).mapping(mapping)
+        p = p.trial_state(self.trial_state.value).estimator(estimator).minimiser(minimiser)
         p.problem()  # refuse an impossible active space before the view is built
         return p
 

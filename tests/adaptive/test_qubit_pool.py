@@ -213,7 +213,7 @@ def test_a_pool_on_another_mapping_is_refused(h2):
 @pytest.mark.parametrize("make, match", [
     (lambda: QubitPool(source=QubitPool()), "must be a fermionic pool"),
     (lambda: QubitPool(drop_z="yes"), "drop_z must be True or False"),
-    (lambda: QubitPool(mapping=3), "give None, a mapping name"),
+    (lambda: QubitPool(mapping=3), "mapping must be None or a mapping or one of the accepted names"),
     (lambda: PauliStringPool(["X0 Q1"]), "not of the form"),
     (lambda: PauliStringPool(["X0 Y0"]), "names a qubit twice"),
     (lambda: PauliStringPool(["Y0 X2", "Y0 X2"]), "more than once"),

@@ -119,7 +119,8 @@ def test_verdict_at_two_sigma():
 # bad input ------------------------------------------------------------------------------------------------------
 @pytest.mark.parametrize("options, message", [
     (dict(shots=0), "shots=0"), (dict(shots=-5), "shots=-5"), (dict(shots=10.5), "shots=10.5"),
-    (dict(grouping="clever"), "accepted: qwc, none"), (dict(allocation="lucky"), "accepted: uniform, variance"),
+    (dict(grouping="clever"), "grouping must be one of 'qwc', 'none'"),
+    (dict(allocation="lucky"), "allocation must be one of 'uniform', 'variance'"),
 ])
 def test_bad_sampled_options(options, message):
     with pytest.raises(gk.ComponentError, match=message):

@@ -219,3 +219,31 @@ def test_failed_points_are_retried_on_request_and_keep_their_failure(tmp_path, m
         retried.points[1].earlier_failures
     with pytest.raises(ScanInputError, match="retry_failed='yes'"):
         pipeline.scan(h2, VALUES, checkpoint=str(tmp_path), retry_failed="yes")
+
+
+def test_a_checkpoint_written_under_the_former_class_names_resumes(tmp_path, monkeypatch):
+    """Checkpoints written by the release before the renames (version 1, no checksums) hash the former class names;
+    they resume, their points reused after the manifest checks."""
+    import json
+
+    from groundkit.studies.checkpoint import fingerprint
+
+    pipeline = gk.Pipeline().trial_state(gk.PairDoubles()).minimiser(gk.FixedStepDescent(step=0.5))
+    first = pipeline.scan(h2, VALUES[:3], checkpoint=str(tmp_path))
+    (tmp_path / "point-00002.json").unlink()  # as if the old scan was killed before its last point
+    manifest_path = tmp_path / "manifest.json"
+    manifest = json.loads(manifest_path.read_text())
+    description = dict(manifest["description"], trial_state="PUCCD()", minimiser="GradientDescent(step=0.5)")
+    old = fingerprint(description)  # what the release before the rename wrote
+    manifest_path.write_text(json.dumps({**manifest, "version": 1, "description": description, "fingerprint": old}))
+    for path in tmp_path.glob("point-*.json"):
+        data = json.loads(path.read_text())
+        del data["checksum"]  # version 1 had no checksums
+        path.write_text(json.dumps({**data, "version": 1, "fingerprint": old}))
+    calls = _counting(monkeypatch)
+    again = pipeline.scan(h2, VALUES[:3], checkpoint=str(tmp_path))
+    assert len(calls) == 1  # the two stored points are reused, the missing one computed
+    assert [p.result.energy for p in again.points] == [p.result.energy for p in first.points]
+    assert {json.loads(p.read_text())["fingerprint"] for p in tmp_path.glob("point-*.json")} == {old}
+    with pytest.raises(CheckpointError, match="another scan configuration"):
+        gk.Pipeline().trial_state(gk.UCCSD()).scan(h2, VALUES[:3], checkpoint=str(tmp_path))

@@ -111,9 +111,9 @@ def test_options_out_of_range(make, words):
 
 
 def test_options_are_keyword_only():
-    with pytest.raises(TypeError):
+    with pytest.raises(ComponentError, match="by keyword"):
         UCCSD(True)
-    with pytest.raises(TypeError):
+    with pytest.raises(ComponentError, match="by keyword"):
         UpCCGSD(2)
 
 

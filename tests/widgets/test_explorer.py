@@ -41,7 +41,7 @@ def test_sampled_estimator_uses_the_shots_and_seed(h2_pipeline):
     explorer.estimator.value = "sampled"
     explorer.shots.value = 3000
     explorer.seed.value = 11
-    explorer.minimiser.value = dict(explorer.minimiser.options)["SPSA (seed 3)"]
+    explorer.minimiser.value = dict(explorer.minimiser.options)["SPSA"]
     assert explorer.configured().components["estimator"] == gk.SampledEstimator(shots=3000, seed=11)
 
 
