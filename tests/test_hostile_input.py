@@ -83,14 +83,14 @@ def component_options(cls) -> st.SearchStrategy[dict]:
 COMPONENTS = {
     "active_space": [gk.ActiveSpace],
     "mapping": [gk.QubitMapping],
-    "trial_state": [gk.UCCSD, gk.PUCCD, gk.UpCCGSD, gk.HardwareEfficient],
+    "trial_state": [gk.UCCSD, gk.PairDoubles, gk.UpCCGSD, gk.HardwareEfficient],
     "estimator": [gk.SampledEstimator, gk.NoisyEstimator],
-    "minimiser": [gk.BFGS, gk.LBFGSB, gk.COBYLA, gk.NelderMead, gk.SPSA, gk.Adam, gk.GradientDescent],
+    "minimiser": [gk.BFGS, gk.LBFGSB, gk.COBYLA, gk.NelderMead, gk.SPSA, gk.Adam, gk.FixedStepDescent],
 }
-NAMES = {gk.QubitMapping: "parity", gk.UCCSD: "uccsd", gk.PUCCD: "puccd", gk.UpCCGSD: "upccgsd",
+NAMES = {gk.QubitMapping: "parity", gk.UCCSD: "uccsd", gk.PairDoubles: "puccd", gk.UpCCGSD: "upccgsd",
          gk.HardwareEfficient: "hardware-efficient", gk.SampledEstimator: "sampled", gk.NoisyEstimator: "noisy",
          gk.BFGS: "bfgs", gk.LBFGSB: "l-bfgs-b", gk.COBYLA: "cobyla", gk.NelderMead: "nelder-mead", gk.SPSA: "spsa",
-         gk.Adam: "adam", gk.GradientDescent: "gradient-descent"}
+         gk.Adam: "adam", gk.FixedStepDescent: "gradient-descent"}
 component_requests = st.sampled_from([(role, cls) for role, classes in COMPONENTS.items() for cls in classes])
 
 
