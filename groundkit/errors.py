@@ -141,3 +141,11 @@ class ResultFieldError(ResultFileError):
 
     def __reduce__(self) -> tuple:
         return (type(self), (self.source, self.path, self.value, self.expected))
+
+
+class DeviceError(GroundkitError):
+    """A device profile that cannot be used: connectivity, native gate, durations or error figures."""
+
+
+class NoiseError(GroundkitError):
+    """A noise model or mitigation option that cannot be used, or a noisy estimate with nothing left to average."""
