@@ -172,12 +172,13 @@ class Pipeline:
                 _OBJECTIVES.popitem(last=False)
         return cached
 
-    def circuit(self, theta: Any = None) -> Any:
+    def circuit(self, theta: Any = None, *, construction: str = "compact") -> Any:
         """A ``cirq.Circuit`` from |0…0⟩ on ``cirq.LineQubit.range(n)`` preparing the trial state at ``theta``
-        (radians; default the initial parameters) under the mapping; qubit k is index k of the qubit Hamiltonian."""
+        (radians; default the initial parameters) under the mapping; qubit k is index k of the qubit Hamiltonian.
+        ``construction``: "compact" excitation circuits (default) or "ladder" (Pauli-string exponentials)."""
         from .circuits import trial_circuit
 
-        return trial_circuit(self, theta)
+        return trial_circuit(self, theta, construction=construction)
 
     def qubit_hamiltonian(self) -> Any:
         """The qubit Hamiltonian (``openfermion.QubitOperator``, Ha) under the mapping, tapered if asked."""

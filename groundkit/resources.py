@@ -10,12 +10,13 @@ from .result import Resources
 
 
 def resources_for(pipeline: Any, objective: Any, theta: np.ndarray) -> Resources:
-    """Counts under the pipeline's mapping (after tapering); gate counts and depth from the compiled circuit."""
+    """Counts under the pipeline's mapping (after tapering); gate counts and depth of the compiled circuit
+    (compact construction, Cirq-optimised), read off its gate list without building the Cirq circuit."""
     encoding = pipeline.encoding()
     stats = pipeline.pauli_statistics()
-    from .circuits import circuit_resources
+    from .circuits.counting import trial_resources
 
-    gates = circuit_resources(pipeline.circuit(theta))
+    gates = trial_resources(pipeline, theta)
     return Resources(
         qubits=encoding.n_qubits,
         parameters=int(objective.n_parameters),

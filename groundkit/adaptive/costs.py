@@ -1,9 +1,9 @@
 """Quantum cost of a grown operator sequence: the one place that asks the qubit layer for circuit figures.
 
 Gate counts come from the same route as every fixed trial state's resources (``groundkit.resources``): the
-pipeline's circuit of the sequence, compiled under its mapping, counted by ``groundkit.circuits``'
-``circuit_resources``. Until that compiler lands, :func:`gate_counter` returns None and every count stays None
-("not known", never a guess).
+gate list of the sequence's circuit, compiled under the pipeline's mapping, counted by
+``groundkit.circuits.counting.trial_resources`` (equal to the built Cirq circuit's counts). Without the
+circuit layer, :func:`gate_counter` returns None and every count stays None ("not known", never a guess).
 """
 
 from __future__ import annotations
@@ -22,14 +22,14 @@ GateCounter = Callable[[Sequence[Operator], np.ndarray], "int | None"]
 def gate_counter(pipeline: Any) -> GateCounter | None:
     """A counter of two-qubit gates for sequences grown on ``pipeline``, or None while no circuit compiler exists."""
     try:
-        from groundkit.circuits import circuit_resources
+        from groundkit.circuits.counting import trial_resources
     except ImportError:
         return None
 
     def count(sequence: Sequence[Operator], parameters: np.ndarray) -> int | None:
         trial_state = trial_state_of(sequence)  # ExcitationList, or PauliRotations for a qubit pool
-        circuit = pipeline.trial_state(trial_state).circuit(np.asarray(parameters, dtype=float))
-        value = circuit_resources(circuit).get("two_qubit_gates")
+        value = trial_resources(pipeline.trial_state(trial_state), np.asarray(parameters, dtype=float)).get(
+            "two_qubit_gates")
         return None if value is None else int(value)
 
     return count

@@ -12,38 +12,64 @@ from ..qubit_states.base import QubitTrialState
 from ..qubit_states.parameters import checked_parameters
 from ..qubits.symmetry import sector_plan
 from ..trial_states.base import TrialState
-from .fermionic import fermionic_circuit
+from .fermionic import checked_construction, fermionic_steps
+from .optimise import optimise_circuit
+from .simplify import flatten, reduce_steps
+from .steps import operations
 
 
-def trial_circuit(source: Any, theta: Any = None) -> cirq.Circuit:
+def source_parts(source: Any) -> tuple[Any, Any]:
+    """``(encoding, trial_state)`` of a Pipeline or of such a pair."""
+    if isinstance(source, tuple) and len(source) == 2:
+        return source
+    if hasattr(source, "encoding") and hasattr(source, "resolved_components"):
+        return source.encoding(), source.resolved_components()["trial_state"]
+    raise ComponentError(f"trial_circuit takes a Pipeline or (encoding, trial_state), got {source!r}")
+
+
+def fermionic_parts(encoding: Any, trial_state: TrialState, theta: Any) -> tuple[Any, np.ndarray]:
+    """The (sector-restricted) plan of a fermionic trial state and its excitation angles at ``theta``."""
+    plan = sector_plan(trial_state, encoding)
+    values = (trial_state.checked_initial_parameters(encoding.problem, plan) if theta is None else
+              checked_parameters(theta, plan.n_parameters, trial_state))
+    return plan, plan.angles(values)
+
+
+def qubit_values(encoding: Any, trial_state: QubitTrialState, theta: Any) -> tuple[Any, tuple, np.ndarray]:
+    """A qubit trial state's checked circuit, symbols and parameter values at ``theta``."""
+    circuit, symbols = trial_state.checked_circuit(encoding)
+    values = (trial_state.checked_initial_parameters(encoding, len(symbols)) if theta is None else
+              checked_parameters(theta, len(symbols), trial_state))
+    return circuit, symbols, values
+
+
+def trial_circuit(source: Any, theta: Any = None, *, construction: str = "compact") -> cirq.Circuit:
     """A ``cirq.Circuit`` from |0…0⟩ on ``cirq.LineQubit.range(n)`` preparing the trial state at ``theta``.
 
     ``source`` is a Pipeline or a pair ``(encoding, trial_state)``; ``theta`` (radians) defaults to the trial
-    state's initial parameters. Fermionic trial states are compiled exactly (Pauli-string exponentials), on a
-    tapered register with their symmetry-conserving excitations only, as in the pipeline's objective; qubit trial
-    states have their symbols resolved. Every qubit of the register appears (idle ones carry an identity).
+    state's initial parameters. Fermionic trial states are compiled exactly, on a tapered register with their
+    symmetry-conserving excitations only, as in the pipeline's objective: ``construction="compact"`` (default) uses
+    the compact excitation circuits, ``"ladder"`` Pauli-string exponentials with CNOT ladders (docs/circuits.md).
+    Qubit trial states have their symbols resolved (``construction`` does not apply to them). Every circuit is
+    optimised with Cirq's transformers (``groundkit.circuits.optimise``), and every qubit of the register appears
+    (idle ones carry an identity).
     """
-    if isinstance(source, tuple) and len(source) == 2:
-        encoding, trial_state = source
-    elif hasattr(source, "encoding") and hasattr(source, "resolved_components"):
-        encoding, trial_state = source.encoding(), source.resolved_components()["trial_state"]
-    else:
-        raise ComponentError(f"trial_circuit takes a Pipeline or (encoding, trial_state), got {source!r}")
+    checked_construction(construction)
+    encoding, trial_state = source_parts(source)
     if isinstance(trial_state, QubitTrialState):
-        circuit, symbols = trial_state.checked_circuit(encoding)
-        values = (trial_state.checked_initial_parameters(encoding, len(symbols)) if theta is None else
-                  checked_parameters(theta, len(symbols), trial_state))
-        circuit = cirq.resolve_parameters(circuit, dict(zip(symbols, values)))
-        circuit = cirq.Circuit(circuit.all_operations()) if isinstance(circuit, cirq.FrozenCircuit) else circuit
+        circuit, symbols, values = qubit_values(encoding, trial_state, theta)
+        steps = trial_state.circuit_steps(encoding, values)
+        if steps is not None:
+            circuit = cirq.Circuit(operations(flatten(reduce_steps(steps)), cirq.LineQubit.range(encoding.n_qubits)))
+        else:
+            circuit = cirq.resolve_parameters(circuit, dict(zip(symbols, values)))
     elif isinstance(trial_state, TrialState):
-        problem = encoding.problem
-        plan = sector_plan(trial_state, encoding)
-        values = (trial_state.checked_initial_parameters(problem, plan) if theta is None else
-                  checked_parameters(theta, plan.n_parameters, trial_state))
-        circuit = fermionic_circuit(encoding, plan, plan.angles(values))
+        plan, angles = fermionic_parts(encoding, trial_state, theta)
+        steps = flatten(reduce_steps(fermionic_steps(encoding, plan, angles, construction)))
+        circuit = cirq.Circuit(operations(steps, cirq.LineQubit.range(encoding.n_qubits)))
     else:
         raise ComponentError(f"trial state {trial_state!r} is neither a fermionic TrialState nor a QubitTrialState")
-    return with_all_qubits(circuit, encoding.n_qubits)
+    return with_all_qubits(optimise_circuit(circuit), encoding.n_qubits)
 
 
 def with_all_qubits(circuit: cirq.AbstractCircuit, n_qubits: int) -> cirq.Circuit:

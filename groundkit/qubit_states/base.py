@@ -47,6 +47,11 @@ class QubitTrialState(Component, role="trial_state"):
         :class:`~groundkit.qubit_states.program.StateProgram` interface); it must give the circuit's own state."""
         return StateProgram(circuit, symbols, encoding.n_qubits)
 
+    def circuit_steps(self, encoding: Any, values: np.ndarray) -> list | None:
+        """Optionally, the circuit at parameter ``values`` as a gate list (``groundkit.circuits.steps``), so that
+        resources are counted without building Cirq objects; None (default) counts :meth:`parametrised_circuit`."""
+        return None
+
     def checked_circuit(self, encoding: Any) -> tuple[cirq.AbstractCircuit, tuple[sympy.Symbol, ...]]:
         """:meth:`parametrised_circuit` and :meth:`parameter_symbols`, checked against the register."""
         circuit = self.parametrised_circuit(encoding)

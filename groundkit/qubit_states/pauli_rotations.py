@@ -182,9 +182,7 @@ class PauliRotations(QubitTrialState):
         """One symbol per string, named by position and string (e.g. ``p1_X0_Y2``)."""
         return tuple(sympy.Symbol(f"p{k + 1}_{s.replace(' ', '_')}") for k, s in enumerate(self.strings))
 
-    def parametrised_circuit(self, encoding: Any) -> cirq.Circuit:
-        from ..circuits.simplify import cancel_inverse_pairs
-
+    def _checked_register(self, encoding: Any) -> int:
         n = int(encoding.n_qubits)
         widest = max((q for s in self.strings for q, _ in pauli_term(s)), default=-1)
         if widest >= n:
@@ -192,11 +190,30 @@ class PauliRotations(QubitTrialState):
                 f"{self!r}: a string acts on qubit {widest}, but the register of {encoding.mapping!r} has {n} qubits "
                 f"(0 ... {n - 1}); build the strings on this pipeline's mapping"
             )
-        qubits = cirq.LineQubit.range(n)
-        operations: list[cirq.Operation] = [cirq.X(qubits[q]) for q, bit in enumerate(encoding.reference_bits) if bit]
-        for string, symbol in zip(self.strings, self.symbols()):
-            operations += rotation_operations(pauli_term(string), symbol, qubits)
-        return cirq.Circuit(cancel_inverse_pairs(operations))
+        return n
+
+    def circuit_steps(self, encoding: Any, values: Any) -> list:
+        """The gate list at ``values`` (radians): reference X gates, then one Pauli-string exponential per string."""
+        from ..circuits.pauli_exponential import pauli_exponential_steps
+        from ..circuits.steps import one
+
+        self._checked_register(encoding)
+        if len(values) != len(self.strings):
+            from ..errors import ParameterError
+
+            raise ParameterError(f"{self!r}: expected {len(self.strings)} values, got {len(values)}")
+        steps = [one("x", q) for q, bit in enumerate(encoding.reference_bits) if bit]
+        for string, value in zip(self.strings, values):
+            steps += pauli_exponential_steps(pauli_term(string), value)
+        return steps
+
+    def parametrised_circuit(self, encoding: Any) -> cirq.Circuit:
+        from ..circuits.simplify import flatten, reduce_steps
+        from ..circuits.steps import operations
+
+        n = self._checked_register(encoding)
+        steps = self.circuit_steps(encoding, self.symbols())
+        return cirq.Circuit(operations(flatten(reduce_steps(steps)), cirq.LineQubit.range(n)))
 
     def parameter_symbols(self, encoding: Any, circuit: cirq.AbstractCircuit) -> tuple[sympy.Symbol, ...]:
         """In the order of the strings (the order of application)."""

@@ -25,9 +25,9 @@ def compare_mappings(pipeline: Any, parameters: Any = None, circuits: bool = Tru
                 "symmetries": ", ".join(encoding.describe()["symmetries"]),
             }
             if circuits:
-                from ..circuits import circuit_resources
+                from ..circuits.counting import trial_resources
 
                 theta = branch.objective().initial_parameters() if parameters is None else parameters
-                row.update(circuit_resources(branch.circuit(theta)))
+                row.update(trial_resources(branch, theta))
             rows.append(row)
     return pd.DataFrame(rows)
