@@ -83,7 +83,8 @@ def test_pauli_rotations_match_cirq_and_the_gate_by_gate_route():
     for label, angle in zip(strings, theta):
         expected = sla.expm_multiply(1j * angle * get_sparse_operator(QubitOperator(label), n_qubits=n), expected)
     assert np.allclose(objective.state(theta), expected, atol=1e-12)
-    assert np.allclose(state_of(fixed.circuit(theta), n), expected, atol=1e-10)  # Cirq's simulator
+    # Cirq's simulator; Cirq's merging of single-qubit gates keeps the state up to a global phase
+    assert abs(np.vdot(expected, state_of(fixed.circuit(theta), n))) == pytest.approx(1.0, abs=1e-10)
     gates = StateProgram(objective.circuit, objective.symbols, n)
     assert np.allclose(gates.state(theta), expected, atol=1e-12)
     energy, gradient = objective.energy_and_gradient(theta)
