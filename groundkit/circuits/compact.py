@@ -42,7 +42,7 @@ def qubit_single(annihilated: int, created: int, angle: float, *, parity: Sequen
     body = [one("h", a), one("s", a), one("h", c), one("s", c), one("h", c), cnot(a, c),
             one("rx", a, -angle, variable), one("rz", c, angle, variable), cnot(a, c),
             one("sdg", a), one("h", a), one("h", c), one("sdg", c), one("h", c)]
-    return flips + body + flips
+    return flips + body + flips[::-1]  # the CZs commute; mirrored, equal ones of a neighbour can cancel
 
 
 def qubit_double(annihilated: Sequence[int], created: Sequence[int], angle: float, *,
@@ -59,7 +59,7 @@ def qubit_double(annihilated: Sequence[int], created: Sequence[int], angle: floa
         sign = (-1) ** sum(pattern[k] for k in frame)
         rotation.append(one("ry", target, sign * (-2.0 * angle) / 8.0, variable))
         rotation.append(cnot(controls[flip], target))
-    return move + flips + rotation + flips + move[::-1]
+    return move + flips + rotation + flips[::-1] + move[::-1]
 
 
 def _apply(term: tuple[tuple[int, int], ...], occupied: set[int]) -> int:

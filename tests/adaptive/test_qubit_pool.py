@@ -137,7 +137,9 @@ def test_h4_chain_reaches_chemical_accuracy_with_fewer_gates(h4_qubit_grown):
     def gates_at_accuracy(run) -> int:
         return next(s.two_qubit_gates for s in growth_steps(run) if s.error <= CHEMICAL_ACCURACY)
 
-    assert gates_at_accuracy(result) < gates_at_accuracy(fermionic) / 3
+    # with ladder circuits for the fermionic excitations the margin was over 3x; the compact excitation circuits
+    # (Yordanov et al. 2020, the default since) narrow it to about 2x here (84 against 162)
+    assert gates_at_accuracy(result) < gates_at_accuracy(fermionic) / 1.5
     objective = result_objective(pipeline, result)
     assert objective.particle_number(result.parameters) == pytest.approx(4.0, abs=1e-4)  # stays near N = 4
     assert abs(result.spin_square - exact.spin_square) < 1e-4  # a singlet, like PySCF's FCI state
