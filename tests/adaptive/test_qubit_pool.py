@@ -138,7 +138,7 @@ def test_h4_chain_reaches_chemical_accuracy_with_fewer_gates(h4_qubit_grown):
         return next(s.two_qubit_gates for s in growth_steps(run) if s.error <= CHEMICAL_ACCURACY)
 
     # with ladder circuits for the fermionic excitations the margin was over 3x; the compact excitation circuits
-    # (Yordanov et al. 2020, the default since) narrow it to about 2x here (84 against 162)
+    # (Yordanov et al. 2020, the default since) narrow it to about 2x here
     assert gates_at_accuracy(result) < gates_at_accuracy(fermionic) / 1.5
     objective = result_objective(pipeline, result)
     assert objective.particle_number(result.parameters) == pytest.approx(4.0, abs=1e-4)  # stays near N = 4
