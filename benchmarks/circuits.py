@@ -24,7 +24,8 @@ _HALF = math.radians(104.48) / 2
 WATER = gk.MoleculeSpec(symbols=("O", "H", "H"), coordinates=(
     (0, 0, 0), (0.9578 * math.sin(_HALF), 0, 0.9578 * math.cos(_HALF)),
     (-0.9578 * math.sin(_HALF), 0, 0.9578 * math.cos(_HALF))), name="water")
-CASES = [("H2", lambda: gk.Pipeline(H2)), ("LiH (2e,4o)", lambda: gk.Pipeline(LIH).active_space(electrons=2, orbitals=4)),
+CASES = [("H2", lambda: gk.Pipeline(H2)),
+         ("LiH (2e,4o)", lambda: gk.Pipeline(LIH).active_space(electrons=2, orbitals=4)),
          ("water STO-3G", lambda: gk.Pipeline(WATER))]
 MAPPINGS = ("jordan-wigner", "parity", "bravyi-kitaev")
 
@@ -48,8 +49,8 @@ def main() -> None:
             objective = pipeline.objective()
             theta = np.random.default_rng(0).uniform(-1, 1, objective.n_parameters)
             ladder = trial_resources(pipeline, theta, construction="ladder")
-            compact, count_ms = _timed(lambda: trial_resources(pipeline, theta))
-            built, build_ms = _timed(lambda: circuit_resources(pipeline.circuit(theta)), repeat=1)
+            compact, count_ms = _timed(lambda p=pipeline, t=theta: trial_resources(p, t))
+            built, build_ms = _timed(lambda p=pipeline, t=theta: circuit_resources(p.circuit(t)), repeat=1)
             assert built == compact, (built, compact)  # the gate-list count is the built circuit's
             print(f"{label:<14}{name:<15}{pipeline.encoding().n_qubits:>6}{objective.n_parameters:>7}"
                   f"{ladder['two_qubit_gates']:>10}{compact['two_qubit_gates']:>11}"

@@ -100,6 +100,8 @@ def steps_of_operations(ops: Iterable[cirq.Operation], qubits: Sequence[cirq.Qid
     for op in ops:
         if isinstance(op.gate, cirq.IdentityGate):
             continue
+        if not cirq.is_parameterized(op) and (cirq.trace_distance_bound(op) or 0.0) <= 1e-8:
+            continue  # what cirq.drop_negligible_operations removes
         where = tuple(index[q] for q in op.qubits)
         if len(where) == 1:
             if cirq.is_parameterized(op) or not cirq.has_unitary(op):
