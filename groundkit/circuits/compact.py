@@ -12,14 +12,16 @@ Yordanov et al. add that parity with CNOT ladders. Our constructions (checked ag
 ``tests/circuits/test_compact.py``):
 
 - **single** (2 CNOTs): a basis change, CNOT(a→c), Rx(−θ) on a and Rz(θ) on c, CNOT(a→c), the undo; the
-  two-qubit part has two non-zero Cartan coefficients, so two CNOTs are the fewest. Parity: one CZ(s, a) per
+  two-qubit part has two non-zero Cartan coefficients, so two CNOTs are the fewest (Shende, Markov and
+  Bullock, Phys. Rev. A 69, 062321 (2004), from memory). Parity: one CZ(s, a) per
   spin orbital s in S before and after (Z_a flips the rotation's sign): 2 + 2|S| two-qubit gates.
 - **double** (14 CNOTs): three CNOTs from r1 move the pair onto a single qubit (r1) with the other three fixed at
   (0, 1, 1); an eight-fold uniformly controlled Ry (Gray-code order, angles ±θ/4) rotates r1 only under that
   pattern; three CNOTs undo the move. Parity: one CNOT(s→r1) per s in S on each side of the rotation (X on the
   target flips the Ry's sign): 14 + 2|S|. The paper states 13 CNOTs for the double; we did not reach 13 within
-  this family (a breadth-first search over every 3-CNOT move and Gray-code order found no way to absorb a CNOT of
-  the rotation into the move), so the count here is 14, one more than published.
+  this family (breadth-first searches over every 4-qubit CNOT network, and over Clifford frames that diagonalise
+  the generator's eight Pauli strings at once followed by any CNOT phase network, found 14 as the fewest), so the
+  count here is 14, one more than published.
 """
 
 from __future__ import annotations
@@ -100,10 +102,4 @@ def jordan_wigner_excitation(creators: Sequence[int], annihilators: Sequence[int
     if len(creators) == 1:
         return qubit_single(annihilators[0], creators[0], sigma * angle, parity=parity, variable=variable)
     return qubit_double(annihilators, creators, sigma * angle, parity=parity, variable=variable)
-
-
-def published_counts() -> dict[str, int]:
-    """CNOT counts of isolated excitations as Yordanov et al. (2020) state them (qubit single 2, qubit double 13),
-    for comparison with :func:`qubit_single` and :func:`qubit_double`."""
-    return {"single": 2, "double": 13}
 
