@@ -28,7 +28,8 @@ def gate_counter(pipeline: Any) -> GateCounter | None:
 
     def count(sequence: Sequence[Operator], parameters: np.ndarray) -> int | None:
         trial_state = trial_state_of(sequence)  # ExcitationList, or PauliRotations for a qubit pool
-        circuit = pipeline.trial_state(trial_state).circuit(np.asarray(parameters, dtype=float))
+        # logical counts (no routing inside the growth loop; routed counts come with the result's resources)
+        circuit = pipeline.trial_state(trial_state).device(None).circuit(np.asarray(parameters, dtype=float))
         value = circuit_resources(circuit).get("two_qubit_gates")
         return None if value is None else int(value)
 
