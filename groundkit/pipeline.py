@@ -100,7 +100,7 @@ class Pipeline:
         """The configured components by role (None where the default applies)."""
         c = self._components
         return {"molecule": c.molecule, "active_space": c.active_space, "mapping": c.mapping,
-                "trial_state": c.trial_state, "estimator": c.estimator, "minimiser": c.minimiser}
+                "trial_state": c.trial_state, "estimator": c.estimator, "minimiser": c.minimiser, "device": c.device}
 
     def resolved_components(self) -> dict[str, Any]:
         """The components with every default filled in."""
@@ -244,6 +244,8 @@ class Pipeline:
         out = {role: repr(c) for role, c in resolved.items()}
         if resolved["molecule"] is not None:
             out["geometry_xyz"] = resolved["molecule"].to_xyz()
+        if self._components.device is not None:  # absent for the logical register, as before devices existed
+            out["device"] = repr(self._components.device)
         return out
 
     def scan(

@@ -3,6 +3,7 @@ graphs, native gate sets, placement and routing onto a device (``compile``), the
 (``device_circuit``), time on device (``timing``), OpenQASM export (``export``), comparison across devices."""
 
 from .builtins import BUILTIN_DEVICES
+from .comparison import compare_devices
 from .compile import compile_for_device
 from .device_circuit import DeviceCircuit
 from .export import device_openqasm
@@ -10,4 +11,4 @@ from .figures import DeviceFigures, ErrorFigures, GateDurations
 from .profile import DeviceProfile, as_device
 
 __all__ = ["BUILTIN_DEVICES", "DeviceCircuit", "DeviceFigures", "DeviceProfile", "ErrorFigures", "GateDurations",
-           "as_device", "compile_for_device", "device_openqasm"]
+           "as_device", "compare_devices", "compile_for_device", "device_openqasm"]
