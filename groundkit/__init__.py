@@ -31,6 +31,7 @@ from .errors import (
     ChargeError,
     CheckpointError,
     ComponentError,
+    DeviceError,
     ConvergenceError,
     DegenerateBoundaryWarning,
     ElementError,
@@ -115,5 +116,5 @@ __all__ = [
     "compare", "compare_mappings", "compare_measurements", "explore", "grown_sequence", "grown_trial_state",
     "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
     "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits",
-    "DeviceCircuit", "DeviceProfile", "compare_devices", "compile_for_device",
+    "DeviceCircuit", "DeviceError", "DeviceProfile", "compare_devices", "compile_for_device",
 ]

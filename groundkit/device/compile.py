@@ -7,8 +7,8 @@
    its SWAP count and the final permutation are kept.
 3. **Rewriting**: ``cirq.optimize_for_target_gateset`` with the device's gateset (Cirq's ``CZTargetGateset``,
    ``SqrtIswapTargetGateset``, or :class:`~groundkit.device.native.CNOTTargetGateset`): connected one- and
-   two-qubit blocks are merged and re-synthesised (KAK), single-qubit runs merged into PhasedXZ gates, operations
-   within 1e-8 of the identity dropped.
+   two-qubit blocks are merged and re-synthesised (KAK) where that saves gates, single-qubit runs merged into
+   PhasedXZ gates, operations within 1e-11 of the identity dropped.
 
 The result prepares the same state as the logical circuit, up to a global phase, with logical qubit i read
 from ``final_placement[i]``.
@@ -24,6 +24,7 @@ import cirq
 from ..circuits.resources import circuit_resources
 from ..errors import DeviceError
 from .device_circuit import DeviceCircuit
+from .native import ATOL
 
 LOOKAHEAD_RADIUS = 8
 """Moments RouteCQC looks ahead when ranking candidate SWAPs (Cirq's default)."""
@@ -124,7 +125,7 @@ def _rewrite(circuit: cirq.Circuit, profile: Any) -> cirq.Circuit:
     """The routed circuit in the device's native gates, single-qubit runs merged, negligible operations dropped."""
     gateset = profile.gateset
     native = cirq.optimize_for_target_gateset(circuit, gateset=gateset, ignore_failures=False)
-    native = cirq.merge_single_qubit_gates_to_phxz(native)
-    native = cirq.drop_negligible_operations(native)
+    native = cirq.merge_single_qubit_gates_to_phxz(native, atol=ATOL)
+    native = cirq.drop_negligible_operations(native, atol=ATOL)
     native = cirq.drop_empty_moments(native)
     return cirq.Circuit(native.all_operations(), strategy=cirq.InsertStrategy.EARLIEST)
