@@ -3,7 +3,8 @@
 Cirq's √iSWAP decomposition (``two_qubit_matrix_to_sqrt_iswap_operations``) loses precision near the edges of the
 Weyl chamber, where CNOT-like blocks lie: its arccos and square roots of near-zero numbers leave errors of about
 1.5e-8 (√ε) per block, which add up over thousands of blocks. :func:`polished` keeps the decomposition's two-qubit
-gates and refines its single-qubit gates by Gauss–Newton steps on ‖U − e^{iφ}·V‖, starting from Cirq's answer, so the block is exact to ~1e-14.
+gates and refines its single-qubit gates by Gauss–Newton steps on ‖U − e^{iφ}·V‖, starting from Cirq's answer,
+so the block is exact to ~1e-14.
 """
 
 from __future__ import annotations
