@@ -50,6 +50,7 @@ def test_openqasm_of_the_routed_circuit_parses_back_to_the_same_state(device):
     parsed = circuit_from_openqasm(text)  # Cirq's OpenQASM 2.0 importer (reference library)
     again = dataclasses.replace(compiled, circuit=parsed).logical_state()
     assert abs(np.vdot(compiled.logical_state(), again)) == pytest.approx(1.0, abs=1e-10)
+    assert gk.openqasm_text(compiled) == text  # the circuits layer's exporter hands a DeviceCircuit over
     three = compiled.openqasm("3.0")
     assert "OPENQASM 3.0;" in three and "qubit[16] q;" in three
     with pytest.raises(gk.DeviceError, match="version '4.0'"):
