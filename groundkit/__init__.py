@@ -23,6 +23,7 @@ from .baselines import Baselines
 from .circuits import circuit_from_openqasm, circuit_resources, openqasm_text, trial_circuit
 from .component import Component, component_from_dict
 from .components import as_active_space, as_component, as_estimator, as_mapping, as_minimiser, as_trial_state
+from .device import DeviceCircuit, DeviceProfile, compare_devices, compile_for_device
 from .errors import (
     ActiveSpaceError,
     AnalysisError,
@@ -32,6 +33,7 @@ from .errors import (
     ComponentError,
     ConvergenceError,
     DegenerateBoundaryWarning,
+    DeviceError,
     ElementError,
     ExcitationError,
     ExecutorError,
@@ -114,4 +116,5 @@ __all__ = [
     "compare", "compare_mappings", "compare_measurements", "explore", "grown_sequence", "grown_trial_state",
     "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
     "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits",
+    "DeviceCircuit", "DeviceError", "DeviceProfile", "compare_devices", "compile_for_device",
 ]

@@ -9,8 +9,9 @@ Infinity, 1e400, or integers beyond 300 digits), no key appears twice in one obj
 fields (lengths, index order) live in :mod:`groundkit.file_checks`.
 
 Fields added after version 1 was first written (``growth``, ``suspect_baselines``, ``baseline_notes``,
-``exact_energy``) are optional, so files of earlier releases still load. Records that later releases may extend
-(top level, provenance, resources, checkpoint envelopes) accept additional keys of plain JSON; loading ignores them.
+``exact_energy``, the device fields of ``resources``) are optional, so files of earlier releases still load.
+Records that later releases may extend (top level, provenance, resources, checkpoint envelopes) accept additional
+keys of plain JSON; loading ignores them.
 """
 
 from __future__ import annotations
@@ -111,10 +112,17 @@ DEFS: dict[str, Any] = {
             "measurement_groups": _ref("count_or_null"),
             "two_qubit_gates": _ref("count_or_null"),
             "depth": _ref("count_or_null"),
+            "device": {"type": ["string", "null"], "description": "a device name or null"},
+            "logical_two_qubit_gates": _ref("count_or_null"),
+            "logical_depth": _ref("count_or_null"),
+            "swaps": _ref("count_or_null"),
+            "device_shots": _ref("count_or_null"),
+            "device_seconds": _ref("non_negative_or_null"),
         },
         "additionalProperties": _ref("plain"),
         "description": "an object with qubits, parameters, pauli_terms, measurement_groups, two_qubit_gates and "
-                       "depth",
+                       "depth (and, from results with a device, device, logical_two_qubit_gates, logical_depth, "
+                       "swaps, device_shots and device_seconds)",
     },
     "provenance": {
         "type": "object",

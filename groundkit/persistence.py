@@ -151,7 +151,7 @@ def build_result(data: dict[str, Any]) -> RunResult:
         fidelity=float(data["fidelity"]),
         spin_square=float(data["spin_square"]),
         particle_number=float(data["particle_number"]),
-        resources=Resources(**{k: None if resources[k] is None else int(resources[k]) for k in RESOURCE_FIELDS}),
+        resources=_resources(resources),
         provenance=data["provenance"],
         growth=tuple(_growth_step(step) for step in data.get("growth", ())),  # absent before adaptive runs
         # files written before the baseline checks have neither
@@ -161,6 +161,14 @@ def build_result(data: dict[str, Any]) -> RunResult:
 
 
 RESOURCE_FIELDS = ("qubits", "parameters", "pauli_terms", "measurement_groups", "two_qubit_gates", "depth")
+DEVICE_COUNT_FIELDS = ("logical_two_qubit_gates", "logical_depth", "swaps", "device_shots")
+"""Resource counts of results with a device; absent from files written before devices (loaded as None)."""
+
+
+def _resources(data: dict[str, Any]) -> Resources:
+    counts = {k: None if data.get(k) is None else int(data[k]) for k in (*RESOURCE_FIELDS, *DEVICE_COUNT_FIELDS)}
+    seconds = data.get("device_seconds")
+    return Resources(**counts, device=data.get("device"), device_seconds=None if seconds is None else float(seconds))
 _FLOAT_FIELDS = ("gradient", "gradient_norm", "energy", "error", "wall_time")
 
 

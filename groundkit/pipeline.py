@@ -33,6 +33,7 @@ class _Components:
     trial_state: Any = None
     estimator: Estimator | None = None
     minimiser: Any = None
+    device: Any = None
 
 
 class Pipeline:
@@ -81,13 +82,25 @@ class Pipeline:
         """Choose the minimiser: an instance (``gk.COBYLA()``) or a name with options (``"adam", step=0.1``)."""
         return self._with(minimiser=_c.as_minimiser(minimiser, **options))
 
+    def device(self, device: Any) -> Pipeline:
+        """Choose the device the circuits are compiled for: a :class:`~groundkit.device.DeviceProfile`, a
+        registered device name (``"grid-4x4"``), or None for the logical all-to-all register (the default)."""
+        from .device import as_device
+
+        return self._with(device=as_device(device))
+
+    @property
+    def device_profile(self) -> Any:
+        """The chosen :class:`~groundkit.device.DeviceProfile`, or None (logical all-to-all register)."""
+        return self._components.device
+
     # components and computed objects ------------------------------------------------------------------------
     @property
     def components(self) -> dict[str, Any]:
         """The configured components by role (None where the default applies)."""
         c = self._components
         return {"molecule": c.molecule, "active_space": c.active_space, "mapping": c.mapping,
-                "trial_state": c.trial_state, "estimator": c.estimator, "minimiser": c.minimiser}
+                "trial_state": c.trial_state, "estimator": c.estimator, "minimiser": c.minimiser, "device": c.device}
 
     def resolved_components(self) -> dict[str, Any]:
         """The components with every default filled in."""
@@ -173,12 +186,17 @@ class Pipeline:
         return cached
 
     def circuit(self, theta: Any = None, *, construction: str = "compact") -> Any:
-        """A ``cirq.Circuit`` from |0…0⟩ on ``cirq.LineQubit.range(n)`` preparing the trial state at ``theta``
-        (radians; default the initial parameters) under the mapping; qubit k is index k of the qubit Hamiltonian.
+        """A :class:`~groundkit.device.DeviceCircuit` preparing the trial state at ``theta`` (radians; default the
+        initial parameters) under the mapping. Without a device its ``.circuit`` is the logical ``cirq.Circuit``
+        from |0…0⟩ on ``cirq.LineQubit.range(n)`` (qubit k is index k of the qubit Hamiltonian), placements the
+        identity; with one it is placed, routed and rewritten in the device's native gates (see docs/devices.md).
         ``construction``: "compact" excitation circuits (default) or "ladder" (Pauli-string exponentials)."""
         from .circuits import trial_circuit
+        from .device import compile_for_device
 
-        return trial_circuit(self, theta, construction=construction)
+        n_qubits = self.encoding().n_qubits
+        return compile_for_device(trial_circuit(self, theta, construction=construction), self._components.device,
+                                  n_qubits=n_qubits)
 
     def qubit_hamiltonian(self) -> Any:
         """The qubit Hamiltonian (``openfermion.QubitOperator``, Ha) under the mapping, tapered if asked."""
@@ -228,6 +246,8 @@ class Pipeline:
         out = {role: repr(c) for role, c in resolved.items()}
         if resolved["molecule"] is not None:
             out["geometry_xyz"] = resolved["molecule"].to_xyz()
+        if self._components.device is not None:  # absent for the logical register, as before devices existed
+            out["device"] = repr(self._components.device)
         return out
 
     def scan(
@@ -267,6 +287,8 @@ class Pipeline:
         for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser"):
             note = "" if chosen[role] is not None else "  # default"
             lines.append(f"  .{role}({resolved[role]!r}){note}")
+        if self._components.device is not None:
+            lines.append(f"  .device({self._components.device!r})")
         return "\n".join(lines)
 
 

@@ -48,7 +48,8 @@ def component_records(components: dict[str, Any]) -> tuple[dict[str, Any], dict[
     """(role -> record or None, role -> why a component could not be recorded) for the resolved components."""
     records: dict[str, Any] = {}
     notes: dict[str, str] = {}
-    for role in ROLES:
+    optional = ("device",) if components.get("device") is not None else ()  # no record: logical register
+    for role in (*ROLES, *optional):
         component = components.get(role)
         try:
             records[role] = component.to_dict()
@@ -89,4 +90,9 @@ def pipeline_from_provenance(provenance: Any, source: str = "result", molecule: 
             raise ResultFileError(f"{source}: the recorded {role.replace('_', ' ')} cannot be rebuilt: {err}") \
                 from None
         pipeline = getattr(pipeline, role)(component)
+    if records.get("device") is not None:  # results without a device have no device record
+        try:
+            pipeline = pipeline.device(component_from_dict(records["device"], "device"))
+        except GroundkitError as err:
+            raise ResultFileError(f"{source}: the recorded device cannot be rebuilt: {err}") from None
     return pipeline

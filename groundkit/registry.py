@@ -254,4 +254,4 @@ def _load_builtins() -> None:
     _builtins_loaded = True
     from . import active_space, estimators, mapping, minimisers, qubit_states, trial_states  # noqa: F401
     from .adaptive import component, pools, qubit_pool  # noqa: F401
-    from .device import figures  # noqa: F401
+    from .device import builtins, figures  # noqa: F401

@@ -70,7 +70,14 @@ class ReferenceRecord:
 
 @dataclass(frozen=True)
 class Resources:
-    """Quantum cost of the trial state. Fields not yet known are None."""
+    """Quantum cost of the trial state. Fields not yet known are None.
+
+    ``two_qubit_gates`` and ``depth`` are of the circuit as run: on the pipeline's device after routing and
+    native-gate rewriting, else the logical circuit. With a device: ``device`` (its name), ``swaps`` (SWAPs the
+    router inserted), ``logical_two_qubit_gates`` / ``logical_depth`` (all-to-all, before routing), and
+    ``device_seconds``: estimated time on the device for one energy at ``device_shots`` shots (see
+    docs/devices.md).
+    """
 
     qubits: int
     parameters: int
@@ -78,6 +85,12 @@ class Resources:
     measurement_groups: int | None = None
     two_qubit_gates: int | None = None
     depth: int | None = None
+    device: str | None = None
+    logical_two_qubit_gates: int | None = None
+    logical_depth: int | None = None
+    swaps: int | None = None
+    device_shots: int | None = None
+    device_seconds: float | None = None
 
 
 @dataclass(frozen=True, eq=False)

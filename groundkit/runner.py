@@ -92,5 +92,5 @@ def build_result(
         spin_square=float(objective.spin_square(theta)),
         particle_number=float(objective.particle_number(theta)),
         resources=resources_for(pipeline, objective, theta),
-        provenance=provenance(pipeline.configuration(), components),
+        provenance=provenance(pipeline.configuration(), {**components, "device": pipeline.device_profile}),
     )

@@ -43,6 +43,9 @@ EXAMPLES = [
     gk.FixedStepDescent(step=0.3, difference_step=1e-4), gk.Adam(beta1=0.8, step=0.02), gk.BFGS(max_iterations=10),
     gk.LBFGSB(bounds=(-3.0, 3.0), memory=5), gk.COBYLA(initial_step=0.2), gk.NelderMead(adaptive=True),
     gk.SPSA(seed=3, A=5.0, window=10),
+    gk.DeviceProfile(), gk.DeviceProfile(name="mine", connectivity="graph", size=None, edges=[(0, 1), (1, 2)],
+                                         native_gate="sqrt-iswap", durations=gk.device.GateDurations(reset=0.0)),
+    *(gk.registry.build("device", name) for name in gk.device.BUILTIN_DEVICES),
 ]
 
 
@@ -58,7 +61,7 @@ def test_round_trip_through_json(component):
 
 def test_every_built_in_component_has_a_round_trip_case():
     covered = {type(c) for c in EXAMPLES}
-    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool"):
+    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "device"):
         for entry in entries(role):
             if entry.cls.__module__.startswith("groundkit."):
                 assert entry.cls in covered, f"{entry.cls.__name__} ({role} {entry.name!r}) has no round-trip case"
@@ -79,7 +82,7 @@ def test_a_record_names_the_role_and_the_registered_name():
     ({"role": "estimator", "name": "guess", "options": {}}, "unknown estimator 'guess'"),
     ({"role": "trial_state", "name": "uccsd", "options": {"init": "hf"}}, r"UCCSD\(init='hf'\): init must be"),
     ({"role": "trial_state", "name": "uccsd", "options": {"inti": "mp2"}}, "no option 'inti'"),
-    ({"role": "device", "name": "x", "options": {}}, "unknown component role 'device'"),
+    ({"role": "gadget", "name": "x", "options": {}}, "unknown component role 'gadget'"),
     ({"role": "estimator", "name": "sampled", "options": {"seed": {"python": "os.system"}}},
      "is not a component record, a circuit or a number"),
 ])
@@ -100,7 +103,7 @@ REQUIRED = {gk.ExcitationList: {"excitations": [((2,), (0,))]}, gk.ExcitationPoo
 
 
 def _built_ins():
-    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool"):
+    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "device"):
         for entry in entries(role):
             if entry.cls.__module__.startswith("groundkit."):
                 yield pytest.param(entry.cls, id=entry.cls.__name__)
@@ -109,7 +112,8 @@ def _built_ins():
 @pytest.mark.parametrize("cls", list(_built_ins()))
 def test_a_typo_in_any_option_name_is_refused_naming_it(cls):
     accepted = cls.accepted_options()
-    error = gk.ActiveSpaceError if cls is gk.ActiveSpace else gk.ComponentError
+    error = gk.ActiveSpaceError if cls is gk.ActiveSpace else \
+        gk.DeviceError if issubclass(cls, gk.DeviceProfile) else gk.ComponentError
     with pytest.raises(error, match=r"has no option 'zzz_unknown'; accepted options: " + ", ".join(accepted)):
         cls(**REQUIRED.get(cls, {}), zzz_unknown=1)
     if not accepted or len(accepted[0]) < 3:

@@ -175,7 +175,7 @@ def test_a_binary_matrix_mapping_tapers_and_compiles(lih_small):
     theta = np.linspace(0.05, 0.3, fenwick.objective().n_parameters)
     from cirq import Simulator
 
-    state = Simulator(dtype=np.complex128).simulate(fenwick.circuit(theta)).final_state_vector
+    state = Simulator(dtype=np.complex128).simulate(fenwick.circuit(theta).circuit).final_state_vector
     energy = float(np.real(np.vdot(state, of.get_sparse_operator(fenwick.qubit_hamiltonian(), n) @ state)))
     assert energy == pytest.approx(fenwick.objective().energy(theta), abs=1e-9)  # Cirq vs the engine: two routes
 

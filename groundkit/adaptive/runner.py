@@ -35,4 +35,4 @@ def run_adaptive(
                           growth.measurement)
     configuration = dict(pipeline.configuration(), grown_trial_state=repr(growth.pipeline.components["trial_state"]))
     return replace(result, growth=tuple(step.to_dict() for step in growth.steps),
-                   provenance=provenance(configuration, components))
+                   provenance=provenance(configuration, {**components, "device": pipeline.device_profile}))

@@ -3,17 +3,24 @@
 from __future__ import annotations
 
 import re
+from typing import Any
 
 import cirq
 
 from ..errors import ComponentError
 
 
-def openqasm_text(circuit: cirq.AbstractCircuit, *, precision: int = 16) -> str:
-    """OpenQASM 2.0 text of a circuit on LineQubits, register ``q`` ordered by qubit index.
+def openqasm_text(circuit: Any, *, precision: int = 16) -> str:
+    """OpenQASM 2.0 text of a circuit on LineQubits, register ``q`` ordered by qubit index; for a
+    :class:`~groundkit.device.DeviceCircuit`, its routed native circuit on the device register (with the placements
+    in the header; see :func:`groundkit.device.device_openqasm`, which also writes OpenQASM 3.0).
 
     ``precision`` is the number of digits of each angle; 16 keeps the prepared state to ~1e-15.
     """
+    from ..device.device_circuit import DeviceCircuit  # the device layer builds on the circuits layer
+
+    if isinstance(circuit, DeviceCircuit):
+        return circuit.openqasm("2.0", precision=precision)
     qubits = sorted(circuit.all_qubits())
     if any(not isinstance(q, cirq.LineQubit) for q in qubits):
         raise ComponentError(f"OpenQASM export needs cirq.LineQubit qubits; got {qubits}")

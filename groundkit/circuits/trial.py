@@ -81,7 +81,15 @@ def with_all_qubits(circuit: cirq.AbstractCircuit, n_qubits: int) -> cirq.Circui
     return out
 
 
-def state_of(circuit: cirq.AbstractCircuit, n_qubits: int) -> np.ndarray:
-    """Final statevector (complex128, qubit 0 most significant) of a circuit from |0…0⟩ on n LineQubits."""
+def state_of(circuit: Any, n_qubits: int) -> np.ndarray:
+    """Final statevector (complex128, qubit 0 most significant) of a circuit from |0…0⟩ on n LineQubits; for a
+    :class:`~groundkit.device.DeviceCircuit`, its logical state (the final placement undone)."""
+    from ..device.device_circuit import DeviceCircuit  # the device layer builds on this module
+
+    if isinstance(circuit, DeviceCircuit):
+        if circuit.n_qubits != n_qubits:
+            raise ComponentError(f"state_of: the compiled circuit has {circuit.n_qubits} logical qubits, not "
+                                 f"{n_qubits}")
+        return circuit.logical_state()
     result = cirq.Simulator(dtype=np.complex128).simulate(circuit, qubit_order=cirq.LineQubit.range(n_qubits))
     return np.asarray(result.final_state_vector)

@@ -53,7 +53,7 @@ def pipeline_of(molecule: MoleculeSpec, components: dict[str, Any]) -> Pipeline:
     from groundkit.pipeline import Pipeline
 
     pipeline = Pipeline(molecule)
-    for role in ROLES:
+    for role in (*ROLES, "device"):
         component = components.get(role)
         if component is not None:
             pipeline = getattr(pipeline, role)(component)
@@ -63,7 +63,7 @@ def pipeline_of(molecule: MoleculeSpec, components: dict[str, Any]) -> Pipeline:
 def components_of(pipeline: Pipeline) -> dict[str, Any]:
     """The pipeline's chosen components by role, without the molecule (plain picklable data)."""
     chosen = pipeline.components
-    return {role: chosen[role] for role in ROLES}
+    return {role: chosen[role] for role in (*ROLES, "device")}
 
 
 def _run_fixed(pipeline: Pipeline, task: Task, answer: dict) -> RunResult:

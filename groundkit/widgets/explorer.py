@@ -17,6 +17,7 @@ from .html import table, verdict_html
 from .live import RunView
 
 _WIDE = {"description_width": "120px"}
+_LOGICAL = "logical"  # the device selector's value for the logical all-to-all register (no device)
 
 
 def _listed(role: str) -> list[tuple[str, Any]]:
@@ -46,6 +47,11 @@ def _mappings() -> list[tuple[str, str]]:
     from ..registry import entries
 
     return [(e.label, e.name) for e in entries("mapping", listed_only=True)]
+
+
+def _devices(own: Any) -> list[tuple[str, Any]]:
+    """The device selector's options: the logical register, every listed device, and the pipeline's own."""
+    return _with_own([("logical (all-to-all, no routing)", _LOGICAL), *_listed("device")], own)
 
 
 def _chosen(options: list[tuple[str, Any]], resolved: Any) -> Any:
@@ -103,6 +109,10 @@ class Explorer(widgets.VBox):
         self.minimiser = widgets.Dropdown(options=minimiser_options,
                                           value=_chosen(minimiser_options, resolved["minimiser"]),
                                           description="minimiser", style=_WIDE)
+        device_options = _devices(own["device"])
+        self.device = widgets.Dropdown(options=device_options,
+                                       value=_chosen(device_options, own["device"] or _LOGICAL),
+                                       description="device", style=_WIDE)
         self.run_button = widgets.Button(description="Run this configuration", button_style="primary",
                                          icon="play", layout=widgets.Layout(width="220px"))
         self.run_button.on_click(self.run)
@@ -116,6 +126,7 @@ class Explorer(widgets.VBox):
             self.trial_state,
             widgets.HBox([self.estimator, self.shots, self.seed]),
             self.minimiser,
+            self.device,
             widgets.HBox([self.run_button, self.message]),
         ])
         super().__init__([selectors, self.view_area, widgets.HTML("<b>Runs so far</b>"), self.table_area])
@@ -165,6 +176,7 @@ class Explorer(widgets.VBox):
             replace(mapping, taper=self.taper.value)
         p = self.pipeline.active_space(space).mapping(mapping)
         p = p.trial_state(self.trial_state.value).estimator(estimator).minimiser(minimiser)
+        p = p.device(None if self.device.value == _LOGICAL else self.device.value)
         p.problem()  # refuse an impossible active space before the view is built
         return p
 
@@ -209,14 +221,16 @@ class Explorer(widgets.VBox):
                 "minimiser": self.minimiser.label, "energy": result.energy, "error_mha": 1000 * result.error,
                 "standard_error_mha": 1000 * result.standard_error, "verdict": result.verdict,
                 "qubits": r.qubits, "parameters": r.parameters, "two_qubit_gates": r.two_qubit_gates,
-                "measurement_groups": r.measurement_groups, "iterations": result.iterations, "time_s": elapsed}
+                "measurement_groups": r.measurement_groups, "iterations": result.iterations, "time_s": elapsed,
+                "device": r.device or "logical", "logical_two_qubit_gates": r.logical_two_qubit_gates,
+                "swaps": r.swaps, "device_seconds": r.device_seconds}
 
     def _table_html(self) -> str:
         if not self.rows:
             return "<div style='font-family:sans-serif;color:#555'>No runs yet: choose a configuration and run.</div>"
         header = ["run", "active space", "mapping", "trial state", "estimator", "minimiser", "energy / Ha",
                   "error / mHa", "verdict", "qubits", "parameters", "2-qubit gates", "groups", "iterations",
-                  "time / s"]
+                  "time / s", "device", "logical 2-qubit gates", "SWAPs", "device s / energy"]
         body = []
         for row in self.rows:
             error = f"{row['error_mha']:+.3f}" + (f" ± {row['standard_error_mha']:.3f}"
@@ -226,7 +240,9 @@ class Explorer(widgets.VBox):
                          f"{row['energy']:.8f}", error, verdict_html(row["verdict"]),
                          *("—" if row[k] is None else row[k] for k in
                            ("qubits", "parameters", "two_qubit_gates", "measurement_groups", "iterations")),
-                         f"{row['time_s']:.2f}"])
+                         f"{row['time_s']:.2f}", html.escape(str(row["device"])),
+                         *("—" if row[k] is None else row[k] for k in ("logical_two_qubit_gates", "swaps")),
+                         "—" if row["device_seconds"] is None else f"{row['device_seconds']:.3g}"])
         return "<div class='gk-box' style='font-family:sans-serif;font-size:12px'>" + table(
             header, body, left=6) + "</div>"
 

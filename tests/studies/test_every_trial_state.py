@@ -159,7 +159,7 @@ def fixed_pipeline(kind: str, result: gk.RunResult) -> gk.Pipeline:
 
 
 def circuit_state(kind: str, result: gk.RunResult) -> np.ndarray:
-    circuit = fixed_pipeline(kind, result).circuit(result.parameters)
+    circuit = fixed_pipeline(kind, result).circuit(result.parameters).circuit
     assert sorted(circuit.all_qubits()) == cirq.LineQubit.range(4)
     return cirq.Simulator(dtype=np.complex128).simulate(circuit, qubit_order=cirq.LineQubit.range(4)) \
         .final_state_vector  # Cirq (reference library)

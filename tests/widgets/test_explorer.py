@@ -79,3 +79,21 @@ def test_own_components_are_offered(h2_pipeline):
 def test_explorer_needs_a_molecule():
     with pytest.raises(gk.ComponentError, match="molecule"):
         gk.explore(gk.Pipeline())
+
+
+def test_device_selector_adds_the_routed_columns(h2_pipeline):
+    explorer = gk.explore(h2_pipeline)
+    labels = dict(explorer.device.options)
+    assert explorer.device.value == "logical" and "4 × 4 grid (CZ)" in labels
+    click(explorer)
+    explorer.device.value = labels["line of 16 (CNOT)"]
+    click(explorer)
+    logical, routed = explorer.rows
+    assert logical["device"] == "logical" and logical["swaps"] is None
+    result = explorer.results[1]
+    assert routed["device"] == "line-16" and routed["swaps"] == result.resources.swaps
+    assert routed["logical_two_qubit_gates"] == logical["two_qubit_gates"]  # same logical circuit
+    assert routed["device_seconds"] == result.resources.device_seconds > 0
+    assert "SWAPs" in explorer.table_area.value and "line-16" in explorer.table_area.value
+    own = gk.explore(h2_pipeline.device(gk.DeviceProfile(name="mine", connectivity="ring", size=5)))
+    assert own.device.value.name == "mine"
