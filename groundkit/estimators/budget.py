@@ -13,13 +13,14 @@ from typing import Any
 import numpy as np
 
 from ..errors import ComponentError
-from .groups import GROUPINGS, group_moments, measurement_groups
+from .grouping import as_grouping, grouping_names, groups_for
+from .groups import group_moments
 from .sampled import ALLOCATIONS, statevector
 
 
-def group_sigmas(encoding: Any, state: np.ndarray, grouping: str) -> np.ndarray:
+def group_sigmas(encoding: Any, state: np.ndarray, grouping: Any) -> np.ndarray:
     """Exact standard deviation (Ha) of each measurement group's per-shot value in ``state``."""
-    _, groups = measurement_groups(encoding.hamiltonian, encoding.n_qubits, grouping)
+    _, groups = groups_for(encoding, grouping)
     return np.sqrt([group_moments(state, g, encoding.n_qubits)[1] for g in groups])
 
 
@@ -39,8 +40,7 @@ def shots_for(sigmas: np.ndarray, precision: float, allocation: str) -> int:
 def shot_budget(pipeline: Any, precision: float = 1.6e-3, parameters: Any = None, grouping: str = "qwc",
                 allocation: str = "variance") -> int:
     """Total shots for one energy estimate with standard error ``precision`` (Ha) at ``parameters``."""
-    if grouping not in GROUPINGS:
-        raise ComponentError(f"unknown grouping {grouping!r}; accepted: {', '.join(GROUPINGS)}")
+    as_grouping(grouping)
     objective = pipeline.objective()
     theta = objective.initial_parameters() if parameters is None else objective.check_parameters(parameters)
     encoding = pipeline.encoding()
@@ -69,12 +69,12 @@ def compare_measurements(pipeline: Any, precision: float = 1.6e-3, parameters: A
                 state, note = statevector(objective, encoding, theta), ""
             except SymmetryError:
                 state, note = None, "the state leaves the tapered symmetry sector"
-            for grouping in GROUPINGS:
+            for grouping in grouping_names():
                 sigmas = None if state is None else group_sigmas(encoding, state, grouping)
                 for allocation in ALLOCATIONS:
                     rows.append({
                         "mapping": name, "tapered": taper, "qubits": encoding.n_qubits, "grouping": grouping,
-                        "groups": len(measurement_groups(encoding.hamiltonian, encoding.n_qubits, grouping)[1]),
+                        "groups": len(groups_for(encoding, grouping)[1]),
                         "allocation": allocation,
                         "shots": None if sigmas is None else shots_for(sigmas, precision, allocation), "note": note,
                     })

@@ -14,12 +14,13 @@ from typing import Any
 
 import numpy as np
 
-from ..constraints import Integer, Interval, OneOf, Seed
+from ..constraints import Integer, Interval, NameOf, OneOf, Seed
 from ..energy_surface import EnergySurface
 from ..errors import ComponentError
 from ..registry import register
 from .base import Estimator, Measurement, central_differences
-from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities, sample_group
+from .grouping import groups_for
+from .groups import moments_from, sample_group
 
 ALLOCATIONS = ("uniform", "variance")
 
@@ -52,8 +53,9 @@ class SampledEstimator(Estimator):
 
     ``shots`` is the total for one energy estimate, split across measurement groups by ``allocation``
     ('uniform', or 'variance': N_g proportional to the group's standard deviation in the current state, taken
-    from the exact state as an idealisation of a pilot measurement). ``grouping``: 'qwc' (qubit-wise commuting,
-    greedy) or 'none' (one term per group). Gradients are central finite differences with step
+    from the exact state as an idealisation of a pilot measurement). ``grouping``: a registered grouping
+    name (``groundkit.estimators.grouping_names()``: 'qwc', 'qwc-term-order', 'commuting', 'basis-rotation',
+    'none'). Gradients are central finite differences with step
     ``gradient_step`` (radians), each side estimated with ``shots`` shots.
     """
 
@@ -67,7 +69,7 @@ class SampledEstimator(Estimator):
 
     constraints = {
         "shots": Integer(1),
-        "grouping": OneOf(*GROUPINGS),
+        "grouping": NameOf("grouping"),
         "allocation": OneOf(*ALLOCATIONS),
         "seed": Seed(),
         "gradient_step": Interval(float, 0.0, np.pi, closed="neither", unit="radians"),
@@ -90,7 +92,7 @@ class SampledMeasurement(Measurement):
         self.objective = objective
         self.encoding = encoding
         self.n_qubits = encoding.n_qubits
-        self.constant, self.groups = measurement_groups(encoding.hamiltonian, self.n_qubits, options.grouping)
+        self.constant, self.groups = groups_for(encoding, options.grouping)
         if options.shots < 2 * len(self.groups):
             raise ComponentError(
                 f"shots={options.shots} are too few for {len(self.groups)} measurement groups; give at least "
@@ -103,14 +105,15 @@ class SampledMeasurement(Measurement):
 
     def estimate_state(self, state: np.ndarray) -> tuple[float, float]:
         """(energy, standard error) in Ha from ``shots`` shots of a statevector."""
+        probabilities = [g.probabilities(state, self.n_qubits) for g in self.groups]
         if self.options.allocation == "variance":
-            sigmas = np.sqrt([group_moments(state, g, self.n_qubits)[1] for g in self.groups])
+            sigmas = np.sqrt([moments_from(p, g)[1] for p, g in zip(probabilities, self.groups)])
         else:
             sigmas = np.ones(len(self.groups))
         shots = allocate(self.options.shots, sigmas, self.options.allocation)
         energy, variance = self.constant, 0.0
-        for group, n in zip(self.groups, shots):
-            mean, var = sample_group(self.rng, group, rotated_probabilities(state, group.basis, self.n_qubits), n)
+        for group, p, n in zip(self.groups, probabilities, shots):
+            mean, var = sample_group(self.rng, group, p, n)
             energy += mean
             variance += var
         return float(energy), float(np.sqrt(variance))
