@@ -111,6 +111,8 @@ DEFS: dict[str, Any] = {
             "measurement_groups": _ref("count_or_null"),
             "two_qubit_gates": _ref("count_or_null"),
             "depth": _ref("count_or_null"),
+            "measurement_two_qubit_gates_worst": _ref("count_or_null"),  # optional: files before issue 16
+            "measurement_two_qubit_gates_mean": _ref("number_or_null"),
         },
         "additionalProperties": _ref("plain"),
         "description": "an object with qubits, parameters, pauli_terms, measurement_groups, two_qubit_gates and "

@@ -78,6 +78,8 @@ class Resources:
     measurement_groups: int | None = None
     two_qubit_gates: int | None = None
     depth: int | None = None
+    measurement_two_qubit_gates_worst: int | None = None  # added by the worst group's basis change
+    measurement_two_qubit_gates_mean: float | None = None  # mean over the groups
 
 
 @dataclass(frozen=True, eq=False)

@@ -49,15 +49,17 @@ def shot_budget(pipeline: Any, precision: float = 1.6e-3, parameters: Any = None
 
 
 def compare_measurements(pipeline: Any, precision: float = 1.6e-3, parameters: Any = None) -> Any:
-    """pandas DataFrame: qubits, groups and predicted shots per mapping x tapering x grouping x allocation.
+    """pandas DataFrame: qubits, groups, two-qubit gates the measurement circuits add (worst and mean over the
+    groups) and predicted shots per mapping x tapering x grouping x allocation.
 
     The state is the pipeline's trial state at ``parameters`` (default: its start), embedded in each register;
     where it leaves a tapered symmetry sector the row's shots are None and ``note`` says why.
     """
     import pandas as pd
 
-    from ..errors import SymmetryError
+    from ..errors import GroundkitError, SymmetryError
     from ..mapping import MAPPINGS, QubitMapping
+    from .measurement_circuits import measurement_cost
 
     rows = []
     objective = pipeline.objective()
@@ -70,12 +72,19 @@ def compare_measurements(pipeline: Any, precision: float = 1.6e-3, parameters: A
             except SymmetryError:
                 state, note = None, "the state leaves the tapered symmetry sector"
             for grouping in grouping_names():
-                sigmas = None if state is None else group_sigmas(encoding, state, grouping)
+                try:
+                    cost = measurement_cost(encoding, grouping, getattr(pipeline, "device_profile", None))
+                    sigmas = None if state is None else group_sigmas(encoding, state, grouping)
+                    why = note
+                except GroundkitError as exc:  # e.g. a basis rotation that leaves the tapered sector
+                    cost, sigmas, why = None, None, str(exc).split(";")[0]
                 for allocation in ALLOCATIONS:
                     rows.append({
                         "mapping": name, "tapered": taper, "qubits": encoding.n_qubits, "grouping": grouping,
-                        "groups": len(groups_for(encoding, grouping)[1]),
+                        "groups": None if cost is None else cost.groups,
+                        "added_two_qubit_worst": None if cost is None else cost.worst,
+                        "added_two_qubit_mean": None if cost is None else cost.mean,
                         "allocation": allocation,
-                        "shots": None if sigmas is None else shots_for(sigmas, precision, allocation), "note": note,
+                        "shots": None if sigmas is None else shots_for(sigmas, precision, allocation), "note": why,
                     })
     return pd.DataFrame(rows)

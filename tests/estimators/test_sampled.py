@@ -119,7 +119,7 @@ def test_verdict_at_two_sigma():
 # bad input ------------------------------------------------------------------------------------------------------
 @pytest.mark.parametrize("options, message", [
     (dict(shots=0), "shots=0"), (dict(shots=-5), "shots=-5"), (dict(shots=10.5), "shots=10.5"),
-    (dict(grouping="clever"), "grouping must be one of the grouping names .qwc., .qwc-term-order."),
+    (dict(grouping="clever"), "grouping must be one of the grouping names 'qwc', 'qwc-term-order'"),
     (dict(allocation="lucky"), "allocation must be one of 'uniform', 'variance'"),
 ])
 def test_bad_sampled_options(options, message):
