@@ -84,6 +84,8 @@ DEFS: dict[str, Any] = {
             "wall_times": _list_of("non_negative", "a list of wall times (s, ≥ 0), one per iteration"),
             "evaluations": _list_of("count", "a list of whole numbers ≥ 0 (cumulative evaluations), one per "
                                              "iteration"),
+            "standard_errors": _list_of("non_negative_or_null", "a list of standard errors (Ha, ≥ 0, or null "
+                                                                "where unknown), one per iteration"),  # optional
         },
         "additionalProperties": _ref("plain"),
         "description": "an object with energies, gradient_norms, wall_times and evaluations",

@@ -136,6 +136,7 @@ def build_result(data: dict[str, Any]) -> RunResult:
             gradient_norms=tuple(_float_or_none(x) for x in history["gradient_norms"]),
             wall_times=tuple(float(x) for x in history["wall_times"]),
             evaluations=tuple(int(x) for x in history["evaluations"]),
+            standard_errors=tuple(_float_or_none(x) for x in history.get("standard_errors", ())),  # absent before
         ),
         converged=data["converged"],
         stop_reason=data["stop_reason"],

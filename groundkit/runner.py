@@ -40,10 +40,32 @@ def run_pipeline(
         outcome = MinimiserOutcome(parameters=x0, energy=measurement.energy(x0), converged=True,
                                    stop_reason="the trial state has no parameters", iterations=(), evaluations=1)
     else:
-        outcome = minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient, callback=callback)
+        outcome = minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient,
+                                     callback=_with_errors(callback, measurement))
     if not np.isfinite(outcome.energy):  # interrupted before the first evaluation finished
         outcome = replace(outcome, energy=measurement.energy(outcome.parameters))
     return build_result(pipeline, problem, objective, outcome, components, measurement)
+
+
+def _error_at(measurement: Measurement | None, record: Any) -> float | None:
+    """The standard error (Ha) of the energy recorded at an iteration: the record's own, else the measurement's
+    estimate at those parameters (0 for exact energies), else None."""
+    if getattr(record, "standard_error", None) is not None:
+        return float(record.standard_error)
+    if measurement is None:
+        return None
+    return measurement.error_at(record.parameters)
+
+
+def _with_errors(callback: Callable[[Any], None] | None, measurement: Measurement) -> Callable[[Any], None] | None:
+    """The callback, given each record with the standard error of its energy."""
+    if callback is None:
+        return None
+
+    def noted(record: Any) -> None:
+        callback(replace(record, standard_error=_error_at(measurement, record)))
+
+    return noted
 
 
 def build_result(
@@ -73,6 +95,7 @@ def build_result(
         gradient_norms=tuple(None if r.gradient_norm is None else float(r.gradient_norm) for r in records),
         wall_times=tuple(float(r.wall_time) for r in records),
         evaluations=tuple(int(r.evaluations) for r in records),
+        standard_errors=tuple(_error_at(measurement, r) for r in records),
     )
     return RunResult(
         energy=float(final_energy),
