@@ -12,7 +12,7 @@ import sympy
 
 import groundkit as gk
 from groundkit.component import component_from_dict
-from groundkit.registry import entries
+from groundkit.registry import entries, lookup
 from groundkit.studies.toml_file import read_study
 
 theta, phi = sympy.symbols("theta phi")
@@ -43,6 +43,8 @@ EXAMPLES = [
     gk.FixedStepDescent(step=0.3, difference_step=1e-4), gk.Adam(beta1=0.8, step=0.02), gk.BFGS(max_iterations=10),
     gk.LBFGSB(bounds=(-3.0, 3.0), memory=5), gk.COBYLA(initial_step=0.2), gk.NelderMead(adaptive=True),
     gk.SPSA(seed=3, A=5.0, window=10),
+    *(lookup("grouping", name)() for name in ("qwc", "qwc-term-order", "commuting", "none")),
+    lookup("grouping", "basis-rotation")(threshold=1e-8),
 ]
 
 
@@ -58,7 +60,7 @@ def test_round_trip_through_json(component):
 
 def test_every_built_in_component_has_a_round_trip_case():
     covered = {type(c) for c in EXAMPLES}
-    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool"):
+    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "grouping"):
         for entry in entries(role):
             if entry.cls.__module__.startswith("groundkit."):
                 assert entry.cls in covered, f"{entry.cls.__name__} ({role} {entry.name!r}) has no round-trip case"
@@ -67,7 +69,8 @@ def test_every_built_in_component_has_a_round_trip_case():
 def test_a_record_names_the_role_and_the_registered_name():
     assert gk.SampledEstimator(seed=2).to_dict() == {
         "role": "estimator", "name": "sampled",
-        "options": {"shots": 10_000, "grouping": "qwc", "allocation": "variance", "seed": 2, "gradient_step": 0.1}}
+        "options": {"shots": 10_000, "grouping": "qwc", "allocation": "variance", "seed": 2, "gradient_step": 0.1,
+                    "gradient": "shift"}}
     assert gk.LBFGSB(bounds=(-math.inf, 1.0)).to_dict()["options"]["bounds"] == [{"float": "-inf"}, 1.0]
     assert gk.Adaptive().to_dict()["options"]["pool"] == {"role": "pool", "name": "singles-doubles", "options": {}}
     circuit = gk.CircuitTrialState(CIRCUIT).to_dict()["options"]["circuit"]
@@ -100,7 +103,7 @@ REQUIRED = {gk.ExcitationList: {"excitations": [((2,), (0,))]}, gk.ExcitationPoo
 
 
 def _built_ins():
-    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool"):
+    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "grouping"):
         for entry in entries(role):
             if entry.cls.__module__.startswith("groundkit."):
                 yield pytest.param(entry.cls, id=entry.cls.__name__)
