@@ -274,6 +274,30 @@ class ComponentOf(Constraint):
         return f"a {self.role.replace('_', ' ')} or one of the accepted names {shown}"
 
 
+class NameOf(Constraint):
+    """A name registered for ``role`` (case, spaces, ``-`` and ``_`` ignored), stored as the registered name."""
+
+    def __init__(self, role: str) -> None:
+        self.role = role
+
+    def check(self, value: Any) -> Any:
+        import difflib
+
+        from .registry import fold, role
+
+        keys = role(self.role).keys
+        if isinstance(value, str) and fold(value) in keys:
+            return keys[fold(value)].name
+        close = difflib.get_close_matches(fold(value), list(keys), n=1) if isinstance(value, str) else []
+        hint = f" (did you mean {keys[close[0]].name!r}?)" if close else ""
+        raise Refused(self.describe() + hint)
+
+    def describe(self) -> str:
+        from .registry import names
+
+        return f"one of the {self.role.replace('_', ' ')} names " + ", ".join(repr(n) for n in names(self.role))
+
+
 class Instance(Constraint):
     """An instance of ``kind`` (``what`` describes it)."""
 

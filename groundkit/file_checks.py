@@ -28,7 +28,9 @@ def result_faults(data: dict[str, Any], at: Path = ()) -> Iterator[FieldFault]:
                          f"{n}, the number of entries of parameters")
     history = data["history"]
     length = len(history["energies"])
-    for name in HISTORY[1:]:
+    for name in HISTORY[1:] + ("standard_errors",):
+        if name == "standard_errors" and not history.get(name):  # optional, absent from older files
+            continue
         if len(history[name]) != length:
             yield FieldFault((*at, "history", name), history[name],
                              f"one entry per iteration, as many as history.energies ({length})")

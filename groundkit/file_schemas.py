@@ -85,6 +85,8 @@ DEFS: dict[str, Any] = {
             "wall_times": _list_of("non_negative", "a list of wall times (s, ≥ 0), one per iteration"),
             "evaluations": _list_of("count", "a list of whole numbers ≥ 0 (cumulative evaluations), one per "
                                              "iteration"),
+            "standard_errors": _list_of("non_negative_or_null", "a list of standard errors (Ha, ≥ 0, or null "
+                                                                "where unknown), one per iteration"),  # optional
         },
         "additionalProperties": _ref("plain"),
         "description": "an object with energies, gradient_norms, wall_times and evaluations",
@@ -118,6 +120,8 @@ DEFS: dict[str, Any] = {
             "swaps": _ref("count_or_null"),
             "device_shots": _ref("count_or_null"),
             "device_seconds": _ref("non_negative_or_null"),
+            "measurement_two_qubit_gates_worst": _ref("count_or_null"),  # optional: files before issue 16
+            "measurement_two_qubit_gates_mean": _ref("number_or_null"),
         },
         "additionalProperties": _ref("plain"),
         "description": "an object with qubits, parameters, pauli_terms, measurement_groups, two_qubit_gates and "

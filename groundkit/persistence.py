@@ -136,6 +136,7 @@ def build_result(data: dict[str, Any]) -> RunResult:
             gradient_norms=tuple(_float_or_none(x) for x in history["gradient_norms"]),
             wall_times=tuple(float(x) for x in history["wall_times"]),
             evaluations=tuple(int(x) for x in history["evaluations"]),
+            standard_errors=tuple(_float_or_none(x) for x in history.get("standard_errors", ())),  # absent before
         ),
         converged=data["converged"],
         stop_reason=data["stop_reason"],
@@ -168,8 +169,17 @@ DEVICE_COUNT_FIELDS = ("logical_two_qubit_gates", "logical_depth", "swaps", "dev
 def _resources(data: dict[str, Any]) -> Resources:
     counts = {k: None if data.get(k) is None else int(data[k]) for k in (*RESOURCE_FIELDS, *DEVICE_COUNT_FIELDS)}
     seconds = data.get("device_seconds")
-    return Resources(**counts, device=data.get("device"), device_seconds=None if seconds is None else float(seconds))
+    return Resources(**counts, device=data.get("device"), device_seconds=None if seconds is None else float(seconds),
+                     **_measurement_gates(data))
 _FLOAT_FIELDS = ("gradient", "gradient_norm", "energy", "error", "wall_time")
+
+
+def _measurement_gates(resources: dict) -> dict[str, Any]:
+    """The measurement circuits' two-qubit gates (absent from files written before they were counted)."""
+    worst = resources.get("measurement_two_qubit_gates_worst")
+    mean = resources.get("measurement_two_qubit_gates_mean")
+    return {"measurement_two_qubit_gates_worst": None if worst is None else int(worst),
+            "measurement_two_qubit_gates_mean": _float_or_none(mean)}
 
 
 def _float_or_none(value: Any) -> float | None:

@@ -17,6 +17,7 @@ def resources_for(pipeline: Any, objective: Any, theta: np.ndarray) -> Resources
     encoding = pipeline.encoding()
     stats = pipeline.pauli_statistics()
     device: dict[str, Any] = {}
+    measurement = _measurement(pipeline)
     if pipeline.device_profile is None:
         from .circuits.counting import trial_resources
 
@@ -35,8 +36,22 @@ def resources_for(pipeline: Any, objective: Any, theta: np.ndarray) -> Resources
         qubits=encoding.n_qubits,
         parameters=int(objective.n_parameters),
         pauli_terms=stats.pauli_terms,
-        measurement_groups=stats.measurement_groups,
+        measurement_groups=stats.measurement_groups if measurement is None else measurement.groups,
         two_qubit_gates=two_qubit_gates,
         depth=depth,
+        measurement_two_qubit_gates_worst=None if measurement is None else measurement.worst,
+        measurement_two_qubit_gates_mean=None if measurement is None else measurement.mean,
         **device,
     )
+
+
+def _measurement(pipeline: Any) -> Any:
+    """Groups and added two-qubit gates of the pipeline's grouping (qwc unless its estimator names one); None
+    where that grouping cannot be measured on this register (a rotation leaving a tapered sector)."""
+    from .errors import GroundkitError
+    from .estimators.measurement_circuits import pipeline_measurement_cost
+
+    try:
+        return pipeline_measurement_cost(pipeline)
+    except GroundkitError:
+        return None

@@ -41,12 +41,14 @@ def verdict_text(verdict: str) -> str:
 @dataclass(frozen=True)
 class History:
     """Per-iteration record of a minimisation: energy (Ha), gradient norm (Ha/rad, None where unknown),
-    wall time of the iteration (s) and cumulative objective evaluations."""
+    wall time of the iteration (s), cumulative objective evaluations and the energy's standard error (Ha; empty
+    in files written before it was recorded)."""
 
     energies: tuple[float, ...] = ()
     gradient_norms: tuple[float | None, ...] = ()
     wall_times: tuple[float, ...] = ()
     evaluations: tuple[int, ...] = ()
+    standard_errors: tuple[float | None, ...] = ()  # Ha per iteration: 0 for exact energies, None where unknown
 
     def __len__(self) -> int:
         return len(self.energies)
@@ -91,6 +93,8 @@ class Resources:
     swaps: int | None = None
     device_shots: int | None = None
     device_seconds: float | None = None
+    measurement_two_qubit_gates_worst: int | None = None  # added by the worst group's basis change
+    measurement_two_qubit_gates_mean: float | None = None  # mean over the groups
 
 
 @dataclass(frozen=True, eq=False)

@@ -40,10 +40,39 @@ def run_pipeline(
         outcome = MinimiserOutcome(parameters=x0, energy=measurement.energy(x0), converged=True,
                                    stop_reason="the trial state has no parameters", iterations=(), evaluations=1)
     else:
-        outcome = minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient, callback=callback)
+        notes = _ErrorNotes(callback, measurement)
+        outcome = minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient, callback=notes)
+        outcome = replace(outcome, iterations=tuple(replace(r, standard_error=notes.errors.get(int(r.iteration)))
+                                                    if int(r.iteration) in notes.errors else r
+                                                    for r in outcome.iterations))
     if not np.isfinite(outcome.energy):  # interrupted before the first evaluation finished
         outcome = replace(outcome, energy=measurement.energy(outcome.parameters))
     return build_result(pipeline, problem, objective, outcome, components, measurement)
+
+
+def _error_at(measurement: Measurement | None, record: Any) -> float | None:
+    """The standard error (Ha) of the energy recorded at an iteration: the record's own, else the measurement's
+    estimate at those parameters (0 for exact energies), else None."""
+    if getattr(record, "standard_error", None) is not None:
+        return float(record.standard_error)
+    if measurement is None:
+        return None
+    return measurement.error_at(record.parameters)
+
+
+class _ErrorNotes:
+    """Wraps the callback: each record gets the standard error of the estimate that gave its energy (the latest
+    estimate at its parameters when the iteration closes), kept by iteration for the history."""
+
+    def __init__(self, callback: Callable[[Any], None] | None, measurement: Measurement) -> None:
+        self.callback, self.measurement = callback, measurement
+        self.errors: dict[int, float | None] = {}
+
+    def __call__(self, record: Any) -> None:
+        error = _error_at(self.measurement, record)
+        self.errors[int(record.iteration)] = error
+        if self.callback is not None:
+            self.callback(replace(record, standard_error=error))
 
 
 def build_result(
@@ -56,6 +85,7 @@ def build_result(
     standard error; the exact energy of those parameters is kept beside it.
     """
     theta = np.asarray(outcome.parameters, dtype=float)
+    errors = tuple(_error_at(measurement, r) for r in outcome.iterations)  # before the fresh final estimate
     if measurement is not None and not measurement.exact:
         final_energy, standard_error = measurement.estimate(theta)
     else:
@@ -73,6 +103,7 @@ def build_result(
         gradient_norms=tuple(None if r.gradient_norm is None else float(r.gradient_norm) for r in records),
         wall_times=tuple(float(r.wall_time) for r in records),
         evaluations=tuple(int(r.evaluations) for r in records),
+        standard_errors=errors,
     )
     return RunResult(
         energy=float(final_energy),

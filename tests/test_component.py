@@ -12,7 +12,7 @@ import sympy
 
 import groundkit as gk
 from groundkit.component import component_from_dict
-from groundkit.registry import entries
+from groundkit.registry import entries, lookup
 from groundkit.studies.toml_file import read_study
 
 theta, phi = sympy.symbols("theta phi")
@@ -46,6 +46,8 @@ EXAMPLES = [
     gk.DeviceProfile(), gk.DeviceProfile(name="mine", connectivity="graph", size=None, edges=[(0, 1), (1, 2)],
                                          native_gate="sqrt-iswap", durations=gk.device.GateDurations(reset=0.0)),
     *(gk.registry.build("device", name) for name in gk.device.BUILTIN_DEVICES),
+    *(lookup("grouping", name)() for name in ("qwc", "qwc-term-order", "commuting", "none")),
+    lookup("grouping", "basis-rotation")(threshold=1e-8),
 ]
 
 
@@ -61,7 +63,7 @@ def test_round_trip_through_json(component):
 
 def test_every_built_in_component_has_a_round_trip_case():
     covered = {type(c) for c in EXAMPLES}
-    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "device"):
+    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "device", "grouping"):
         for entry in entries(role):
             if entry.cls.__module__.startswith("groundkit."):
                 assert entry.cls in covered, f"{entry.cls.__name__} ({role} {entry.name!r}) has no round-trip case"
@@ -70,7 +72,8 @@ def test_every_built_in_component_has_a_round_trip_case():
 def test_a_record_names_the_role_and_the_registered_name():
     assert gk.SampledEstimator(seed=2).to_dict() == {
         "role": "estimator", "name": "sampled",
-        "options": {"shots": 10_000, "grouping": "qwc", "allocation": "variance", "seed": 2, "gradient_step": 0.1}}
+        "options": {"shots": 10_000, "grouping": "qwc", "allocation": "variance", "seed": 2, "gradient_step": 0.1,
+                    "gradient": "shift"}}
     assert gk.LBFGSB(bounds=(-math.inf, 1.0)).to_dict()["options"]["bounds"] == [{"float": "-inf"}, 1.0]
     assert gk.Adaptive().to_dict()["options"]["pool"] == {"role": "pool", "name": "singles-doubles", "options": {}}
     circuit = gk.CircuitTrialState(CIRCUIT).to_dict()["options"]["circuit"]
@@ -103,7 +106,7 @@ REQUIRED = {gk.ExcitationList: {"excitations": [((2,), (0,))]}, gk.ExcitationPoo
 
 
 def _built_ins():
-    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "device"):
+    for role in ("active_space", "mapping", "trial_state", "estimator", "minimiser", "pool", "device", "grouping"):
         for entry in entries(role):
             if entry.cls.__module__.startswith("groundkit."):
                 yield pytest.param(entry.cls, id=entry.cls.__name__)

@@ -29,6 +29,11 @@ class Measurement(ABC):
         """The energy estimate (Ha) alone."""
         return self.estimate(theta)[0]
 
+    def error_at(self, theta: np.ndarray) -> float | None:
+        """Standard error (Ha) of the latest estimate at exactly ``theta``: 0 for exact energies, None when this
+        measurement has not estimated there (or keeps no record)."""
+        return 0.0 if self.exact else None
+
     def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
         """(energy, gradient in Ha/rad); only when ``provides_gradient``."""
         from ..errors import ComponentError

@@ -13,13 +13,14 @@ from typing import Any
 import numpy as np
 
 from ..errors import ComponentError
-from .groups import GROUPINGS, group_moments, measurement_groups
+from .grouping import as_grouping, grouping_names, groups_for
+from .groups import group_moments
 from .sampled import ALLOCATIONS, statevector
 
 
-def group_sigmas(encoding: Any, state: np.ndarray, grouping: str) -> np.ndarray:
+def group_sigmas(encoding: Any, state: np.ndarray, grouping: Any) -> np.ndarray:
     """Exact standard deviation (Ha) of each measurement group's per-shot value in ``state``."""
-    _, groups = measurement_groups(encoding.hamiltonian, encoding.n_qubits, grouping)
+    _, groups = groups_for(encoding, grouping)
     return np.sqrt([group_moments(state, g, encoding.n_qubits)[1] for g in groups])
 
 
@@ -39,8 +40,7 @@ def shots_for(sigmas: np.ndarray, precision: float, allocation: str) -> int:
 def shot_budget(pipeline: Any, precision: float = 1.6e-3, parameters: Any = None, grouping: str = "qwc",
                 allocation: str = "variance") -> int:
     """Total shots for one energy estimate with standard error ``precision`` (Ha) at ``parameters``."""
-    if grouping not in GROUPINGS:
-        raise ComponentError(f"unknown grouping {grouping!r}; accepted: {', '.join(GROUPINGS)}")
+    as_grouping(grouping)
     objective = pipeline.objective()
     theta = objective.initial_parameters() if parameters is None else objective.check_parameters(parameters)
     encoding = pipeline.encoding()
@@ -49,15 +49,17 @@ def shot_budget(pipeline: Any, precision: float = 1.6e-3, parameters: Any = None
 
 
 def compare_measurements(pipeline: Any, precision: float = 1.6e-3, parameters: Any = None) -> Any:
-    """pandas DataFrame: qubits, groups and predicted shots per mapping x tapering x grouping x allocation.
+    """pandas DataFrame: qubits, groups, two-qubit gates the measurement circuits add (worst and mean over the
+    groups) and predicted shots per mapping x tapering x grouping x allocation.
 
     The state is the pipeline's trial state at ``parameters`` (default: its start), embedded in each register;
     where it leaves a tapered symmetry sector the row's shots are None and ``note`` says why.
     """
     import pandas as pd
 
-    from ..errors import SymmetryError
+    from ..errors import GroundkitError, SymmetryError
     from ..mapping import MAPPINGS, QubitMapping
+    from .measurement_circuits import measurement_cost
 
     rows = []
     objective = pipeline.objective()
@@ -69,13 +71,20 @@ def compare_measurements(pipeline: Any, precision: float = 1.6e-3, parameters: A
                 state, note = statevector(objective, encoding, theta), ""
             except SymmetryError:
                 state, note = None, "the state leaves the tapered symmetry sector"
-            for grouping in GROUPINGS:
-                sigmas = None if state is None else group_sigmas(encoding, state, grouping)
+            for grouping in grouping_names():
+                try:
+                    cost = measurement_cost(encoding, grouping, getattr(pipeline, "device_profile", None))
+                    sigmas = None if state is None else group_sigmas(encoding, state, grouping)
+                    why = note
+                except GroundkitError as exc:  # e.g. a basis rotation that leaves the tapered sector
+                    cost, sigmas, why = None, None, str(exc).split(";")[0]
                 for allocation in ALLOCATIONS:
                     rows.append({
                         "mapping": name, "tapered": taper, "qubits": encoding.n_qubits, "grouping": grouping,
-                        "groups": len(measurement_groups(encoding.hamiltonian, encoding.n_qubits, grouping)[1]),
+                        "groups": None if cost is None else cost.groups,
+                        "added_two_qubit_worst": None if cost is None else cost.worst,
+                        "added_two_qubit_mean": None if cost is None else cost.mean,
                         "allocation": allocation,
-                        "shots": None if sigmas is None else shots_for(sigmas, precision, allocation), "note": note,
+                        "shots": None if sigmas is None else shots_for(sigmas, precision, allocation), "note": why,
                     })
     return pd.DataFrame(rows)

@@ -14,12 +14,14 @@ from typing import Any
 
 import numpy as np
 
-from ..constraints import Integer, Interval, OneOf, Seed
+from ..constraints import Integer, Interval, NameOf, OneOf, Seed
 from ..energy_surface import EnergySurface
 from ..errors import ComponentError
 from ..registry import register
-from .base import Estimator, Measurement, central_differences
-from .groups import GROUPINGS, group_moments, measurement_groups, rotated_probabilities, sample_group
+from .base import Estimator, Measurement
+from .grouping import groups_for
+from .groups import moments_from, sample_group
+from .shift_rules import shift_gradient
 
 ALLOCATIONS = ("uniform", "variance")
 
@@ -52,9 +54,12 @@ class SampledEstimator(Estimator):
 
     ``shots`` is the total for one energy estimate, split across measurement groups by ``allocation``
     ('uniform', or 'variance': N_g proportional to the group's standard deviation in the current state, taken
-    from the exact state as an idealisation of a pilot measurement). ``grouping``: 'qwc' (qubit-wise commuting,
-    greedy) or 'none' (one term per group). Gradients are central finite differences with step
-    ``gradient_step`` (radians), each side estimated with ``shots`` shots.
+    from the exact state as an idealisation of a pilot measurement). ``grouping``: a registered grouping
+    name (``groundkit.estimators.grouping_names()``: 'qwc', 'qwc-term-order', 'commuting', 'basis-rotation',
+    'none'). ``gradient``: 'shift' (parameter-shift rules where the
+    generator allows: four-term for fermionic excitations, two-term for Pauli rotations, see
+    :mod:`groundkit.estimators.shift_rules`; central differences elsewhere) or 'differences' (central finite
+    differences with step ``gradient_step`` radians); every shifted energy is estimated with ``shots`` shots.
     """
 
     shots: int = 10_000
@@ -62,15 +67,17 @@ class SampledEstimator(Estimator):
     allocation: str = "variance"
     seed: int | None = None
     gradient_step: float = 0.1
+    gradient: str = "shift"
 
     exact = False
 
     constraints = {
         "shots": Integer(1),
-        "grouping": OneOf(*GROUPINGS),
+        "grouping": NameOf("grouping"),
         "allocation": OneOf(*ALLOCATIONS),
         "seed": Seed(),
         "gradient_step": Interval(float, 0.0, np.pi, closed="neither", unit="radians"),
+        "gradient": OneOf("shift", "differences"),
     }
 
     def measure(self, objective: Any, encoding: Any = None) -> SampledMeasurement:
@@ -90,34 +97,65 @@ class SampledMeasurement(Measurement):
         self.objective = objective
         self.encoding = encoding
         self.n_qubits = encoding.n_qubits
-        self.constant, self.groups = measurement_groups(encoding.hamiltonian, self.n_qubits, options.grouping)
+        self.constant, self.groups = groups_for(encoding, options.grouping)
         if options.shots < 2 * len(self.groups):
             raise ComponentError(
                 f"shots={options.shots} are too few for {len(self.groups)} measurement groups; give at least "
                 f"{2 * len(self.groups)} (two per group)"
             )
         self.rng = np.random.default_rng(options.seed)
+        self._errors: dict[bytes, float] = {}  # parameters -> standard error of the latest estimate there
+        self.last_gradient_error: np.ndarray | None = None
 
     def estimate(self, theta: np.ndarray) -> tuple[float, float]:
-        return self.estimate_state(statevector(self.objective, self.encoding, theta))
+        value, error = self.estimate_state(statevector(self.objective, self.encoding, theta))
+        key = np.asarray(theta, dtype=float).tobytes()
+        self._errors.pop(key, None)
+        self._errors[key] = error
+        while len(self._errors) > 100_000:
+            self._errors.pop(next(iter(self._errors)))
+        return value, error
+
+    def error_at(self, theta: np.ndarray) -> float | None:
+        return self._errors.get(np.asarray(theta, dtype=float).tobytes())
 
     def estimate_state(self, state: np.ndarray) -> tuple[float, float]:
         """(energy, standard error) in Ha from ``shots`` shots of a statevector."""
+        probabilities = [g.probabilities(state, self.n_qubits) for g in self.groups]
         if self.options.allocation == "variance":
-            sigmas = np.sqrt([group_moments(state, g, self.n_qubits)[1] for g in self.groups])
+            sigmas = np.sqrt([moments_from(p, g)[1] for p, g in zip(probabilities, self.groups)])
         else:
             sigmas = np.ones(len(self.groups))
         shots = allocate(self.options.shots, sigmas, self.options.allocation)
         energy, variance = self.constant, 0.0
-        for group, n in zip(self.groups, shots):
-            mean, var = sample_group(self.rng, group, rotated_probabilities(state, group.basis, self.n_qubits), n)
+        for group, p, n in zip(self.groups, probabilities, shots):
+            mean, var = sample_group(self.rng, group, p, n)
             energy += mean
             variance += var
         return float(energy), float(np.sqrt(variance))
 
+    def gradient(self, theta: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """(gradient in Ha/rad, its standard error) from sampled energies at shifted parameters."""
+        theta = np.asarray(theta, dtype=float)
+        if self.options.gradient == "shift":
+            gradient, error, _ = shift_gradient(self.objective, self.encoding, theta, self.estimate_state,
+                                                self.options.gradient_step)
+            return gradient, error
+        step = self.options.gradient_step
+        gradient, error = np.zeros(theta.size), np.zeros(theta.size)
+        for k in range(theta.size):
+            shift = np.zeros(theta.size)
+            shift[k] = step
+            (up, s_up), (down, s_down) = self.estimate(theta + shift), self.estimate(theta - shift)
+            gradient[k], error[k] = (up - down) / (2 * step), np.hypot(s_up, s_down) / (2 * step)
+        return gradient, error
+
     def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
-        """Sampled energy and central finite-difference gradient (2P + 1 estimates of ``shots`` shots)."""
-        return self.energy(theta), central_differences(self.energy, theta, self.options.gradient_step)
+        """Sampled energy and gradient (see :meth:`gradient`); the gradient's standard error is kept in
+        ``last_gradient_error``."""
+        energy, self.last_error = self.estimate(theta)
+        gradient, self.last_gradient_error = self.gradient(theta)
+        return energy, gradient
 
     def __repr__(self) -> str:
         return f"SampledMeasurement({self.options!r}, {len(self.groups)} groups, {self.n_qubits} qubits)"

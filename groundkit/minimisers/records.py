@@ -39,6 +39,7 @@ class IterationRecord:
     gradient_norm: float | None
     wall_time: float
     evaluations: int
+    standard_error: float | None = None  # Ha, of a sampled energy (the runner fills it from the measurement)
 
     def __post_init__(self) -> None:
         object.__setattr__(self, "parameters", _frozen_copy(self.parameters))
@@ -49,7 +50,7 @@ class IterationRecord:
         return (
             self.iteration == other.iteration and _same(self.energy, other.energy)
             and _same(self.gradient_norm, other.gradient_norm) and _same(self.wall_time, other.wall_time)
-            and self.evaluations == other.evaluations
+            and self.evaluations == other.evaluations and _same(self.standard_error, other.standard_error)
             and np.array_equal(self.parameters, other.parameters, equal_nan=True)
         )
 
@@ -60,6 +61,7 @@ class IterationRecord:
         return {
             "iteration": self.iteration, "energy": self.energy, "parameters": self.parameters.tolist(),
             "gradient_norm": self.gradient_norm, "wall_time": self.wall_time, "evaluations": self.evaluations,
+            "standard_error": self.standard_error,
         }
 
 

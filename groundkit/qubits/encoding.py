@@ -181,9 +181,10 @@ class QubitEncoding:
 
 
 def _real(operator: QubitOperator) -> QubitOperator:
-    """Drop imaginary round-off from a Hermitian operator's coefficients."""
+    """Drop imaginary round-off from a Hermitian operator's coefficients; terms in sorted order (so nothing
+    downstream depends on the hash-seeded order in which OpenFermion built them)."""
     out = QubitOperator()
-    for term, c in operator.terms.items():
+    for term, c in sorted(operator.terms.items(), key=lambda item: item[0]):
         if abs(c.imag) > 1e-8:
             raise ValueError(f"qubit Hamiltonian term {term} has complex coefficient {c}")
         out.terms[term] = float(c.real)

@@ -4,8 +4,9 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 
-import numpy as np
 from openfermion import QubitOperator
+
+from .sorted_insertion import sorted_insertion
 
 
 def qubitwise_commute(a: tuple, b: tuple) -> bool:
@@ -15,46 +16,10 @@ def qubitwise_commute(a: tuple, b: tuple) -> bool:
 
 
 def qwc_groups(operator: QubitOperator) -> list[list[tuple]]:
-    """Greedy colouring into qubit-wise commuting groups: terms by descending |coefficient|, each into the first
-    group it commutes with qubit-wise (first fit). The identity term is left out: it needs no measurement.
-
-    Each group keeps its measurement basis as X and Z bit masks, so one term is checked against every group at
-    once with integer arithmetic.
-    """
-    terms = sorted((t for t in operator.terms if t), key=lambda t: -abs(operator.terms[t]))
-    groups: list[list[tuple]] = []
-    x_masks: list[int] = []
-    z_masks: list[int] = []
-    for term in terms:
-        x, z = _masks(term)
-        support = x | z
-        chosen = -1
-        if groups:
-            gx = np.fromiter(x_masks, dtype=object, count=len(x_masks))
-            gz = np.fromiter(z_masks, dtype=object, count=len(z_masks))
-            overlap = (gx | gz) & support
-            fits = np.flatnonzero(((gx ^ x) & overlap | (gz ^ z) & overlap) == 0)
-            chosen = int(fits[0]) if fits.size else -1
-        if chosen < 0:
-            groups.append([term])
-            x_masks.append(x)
-            z_masks.append(z)
-        else:
-            groups[chosen].append(term)
-            x_masks[chosen] |= x
-            z_masks[chosen] |= z
-    return groups
-
-
-def _masks(term: tuple) -> tuple[int, int]:
-    """X and Z bit masks of a Pauli string (Y sets both)."""
-    x = z = 0
-    for q, op in term:
-        if op in "XY":
-            x |= 1 << q
-        if op in "YZ":
-            z |= 1 << q
-    return x, z
+    """Greedy colouring into qubit-wise commuting groups: terms by descending |coefficient| (ties by the Pauli
+    string), each into the first group it commutes with qubit-wise (first fit; this is sorted insertion, see
+    :mod:`groundkit.qubits.sorted_insertion`). The identity term is left out: it needs no measurement."""
+    return sorted_insertion(operator, "qubitwise")
 
 
 @dataclass(frozen=True)
@@ -66,7 +31,7 @@ class PauliStatistics:
     largest_weight: int
     one_norm: float
     measurement_groups: int
-    grouping: str = "qubit-wise commuting, greedy first fit by descending |coefficient|"
+    grouping: str = "qubit-wise commuting, greedy first fit by descending |coefficient|, ties by Pauli string"
 
 
 def pauli_statistics(operator: QubitOperator, n_qubits: int) -> PauliStatistics:

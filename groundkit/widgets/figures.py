@@ -49,9 +49,10 @@ def draw_energy(ax: Any, series: EnergySeries) -> None:
         ax.axhline(ref, color=palette.EXACT, lw=1.6, label=f"exact reference {ref:.6f} Ha")
         span += [ref - 1.5 * CHEMICAL_ACCURACY, ref + 1.5 * CHEMICAL_ACCURACY]
     if len(y):
-        if series.standard_error > 0:
-            label = f"trial state (±1σ = {1000 * series.standard_error:.2f} mHa)"
-            ax.errorbar(x, y, yerr=series.standard_error, fmt="o-", ms=3, lw=1.2, color=palette.TRIAL,
+        bars = series.error_bars()
+        if bars is not None:
+            label = f"trial state (±1σ per iteration, last {1000 * bars[-1]:.2f} mHa)"
+            ax.errorbar(x, y, yerr=bars, fmt="o-", ms=3, lw=1.2, color=palette.TRIAL,
                         ecolor=palette.SKY, capsize=2, label=label)
         else:
             ax.plot(x, y, "o-", ms=3, lw=1.4, color=palette.TRIAL, label="trial state")

@@ -21,9 +21,12 @@ class EnergySeries:
     reference: float | None = None
     baselines: dict[str, float] = field(default_factory=dict)
     standard_error: float = 0.0
+    standard_errors: list[float | None] = field(default_factory=list)  # per iteration, the error bars
 
     def add(self, record: Any) -> None:
         """Append one ``IterationRecord``."""
+        error = getattr(record, "standard_error", None)
+        self.standard_errors.append(None if error is None else float(error))
         self.iterations.append(int(record.iteration))
         self.energies.append(float(record.energy))
         norm = record.gradient_norm
@@ -36,7 +39,16 @@ class EnergySeries:
         return cls(iterations=list(range(1, len(history) + 1)), energies=list(history.energies),
                    gradient_norms=list(history.gradient_norms), reference=result.reference.energy,
                    baselines=known_baselines(result.baselines, result.suspect_baselines),
-                   standard_error=float(result.standard_error))
+                   standard_error=float(result.standard_error),
+                   standard_errors=list(history.standard_errors) if len(history.standard_errors) == len(history)
+                   else [None] * len(history))
+
+    def error_bars(self) -> list[float] | None:
+        """One error bar (Ha) per iteration: the iteration's own standard error; where unknown (files written
+        before they were recorded) the final one; None when every bar would be zero."""
+        bars = [self.standard_error if e is None else e for e in self.standard_errors]
+        bars += [self.standard_error] * (len(self.energies) - len(bars))
+        return bars if any(b > 0 for b in bars) else None
 
 
 @dataclass

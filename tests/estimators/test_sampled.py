@@ -85,7 +85,7 @@ def test_tapering_keeps_only_symmetry_conserving_excitations(setting):
 def test_compare_measurements_table(setting):
     pipeline, theta, _ = setting
     table = compare_measurements(pipeline, parameters=theta)
-    assert len(table) == 3 * 2 * 2 * 2
+    assert len(table) == 3 * 2 * len(gk.estimators.grouping_names()) * 2
     assert set(table.columns) >= {"mapping", "tapered", "qubits", "grouping", "groups", "allocation", "shots"}
     qwc = table[(table.grouping == "qwc")]
     none = table[(table.grouping == "none")]
@@ -119,7 +119,7 @@ def test_verdict_at_two_sigma():
 # bad input ------------------------------------------------------------------------------------------------------
 @pytest.mark.parametrize("options, message", [
     (dict(shots=0), "shots=0"), (dict(shots=-5), "shots=-5"), (dict(shots=10.5), "shots=10.5"),
-    (dict(grouping="clever"), "grouping must be one of 'qwc', 'none'"),
+    (dict(grouping="clever"), "grouping must be one of the grouping names 'qwc', 'qwc-term-order'"),
     (dict(allocation="lucky"), "allocation must be one of 'uniform', 'variance'"),
 ])
 def test_bad_sampled_options(options, message):
