@@ -69,10 +69,15 @@ class Interval(Constraint):
                 raise self.refuse()
             value = int(value)
         else:
-            if not _is_real(value) or math.isnan(float(value)):
+            if not _is_real(value):
                 raise self.refuse()
-            if not self.allow_infinite and not math.isfinite(float(value)):
+            try:
+                as_float = float(value)
+            except OverflowError:  # an int beyond the float range (10**400): no finite real number
+                raise self.refuse() from None
+            if math.isnan(as_float) or (not self.allow_infinite and not math.isfinite(as_float)):
                 raise self.refuse()
+            value = as_float if isinstance(value, int) and abs(value) > 2**53 else value
             value = value if isinstance(value, (int, float)) else float(value)
         if self.low is not None:
             if value < self.low or (value == self.low and self.closed in ("neither", "right")):

@@ -2,8 +2,8 @@
 
 The circuit of a group is its basis change on ``cirq.LineQubit.range(n)`` (adjacent inverse pairs cancelled),
 appended after the state preparation and before a Z measurement of every qubit. Its two-qubit gates are counted
-on the logical all-to-all register, or, when the pipeline has a device profile and
-``groundkit.device.compile_for_device`` exists, after placement and routing on that device.
+on the logical all-to-all register, or, when the pipeline has a device profile, after placement and routing on
+that device (``groundkit.device.compile_for_device``).
 """
 
 from __future__ import annotations
@@ -27,25 +27,19 @@ def group_circuit(group: MeasurementGroup, n_qubits: int) -> cirq.Circuit:
 
 
 def _router(profile: Any) -> Any:
-    """``compile_for_device`` when a device profile is set and the device layer provides it, else None."""
+    """``compile_for_device`` when a device profile is set, else None (the logical all-to-all register)."""
     if profile is None:
         return None
-    try:
-        from ..device import compile_for_device  # type: ignore[attr-defined]
-    except ImportError:
-        return None
+    from ..device import compile_for_device
+
     return compile_for_device
 
 
 def two_qubit_gates(circuit: cirq.Circuit, n_qubits: int, profile: Any = None) -> int:
-    """Two-qubit gates of a measurement circuit, routed on ``profile`` when the device layer can."""
+    """Two-qubit gates of a measurement circuit, routed on ``profile`` when one is given."""
     route = _router(profile)
     if route is not None and len(circuit):
-        try:
-            compiled = route(circuit, profile, n_qubits=n_qubits)
-        except TypeError:  # a compile_for_device without the register size
-            compiled = route(circuit, profile)
-        circuit = compiled.circuit
+        circuit = route(circuit, profile, n_qubits=n_qubits).circuit
     return int(circuit_resources(circuit)["two_qubit_gates"])
 
 
