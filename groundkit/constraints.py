@@ -69,9 +69,13 @@ class Interval(Constraint):
                 raise self.refuse()
             value = int(value)
         else:
-            if not _is_real(value) or math.isnan(float(value)):
+            try:
+                as_float = float(value) if _is_real(value) else math.nan
+            except OverflowError:  # an integer beyond any float
+                raise self.refuse() from None
+            if math.isnan(as_float):
                 raise self.refuse()
-            if not self.allow_infinite and not math.isfinite(float(value)):
+            if not self.allow_infinite and not math.isfinite(as_float):
                 raise self.refuse()
             value = value if isinstance(value, (int, float)) else float(value)
         if self.low is not None:

@@ -160,3 +160,13 @@ def test_hostile_component_names_and_limits_get_groundkit_errors(value, setting)
     for name in ("evaluation_seconds", "memory_fraction", "memory_bytes"):
         with gk.limits.changed():
             only_groundkit_errors(setattr, gk.limits, name, setting)
+
+
+def test_an_integer_beyond_any_float_is_refused_not_overflowing():
+    # found by the hypothesis search above: float(10**400) raised OverflowError inside the Interval check
+    try:
+        gk.NoisyEstimator(one_qubit=10**400)
+    except gk.ComponentError as exc:
+        assert "one_qubit" in str(exc)
+    else:
+        raise AssertionError("accepted one_qubit=10**400")
