@@ -9,6 +9,7 @@ channel E(λ) is exactly of this form). The standard error propagates the points
 
 from __future__ import annotations
 
+import warnings
 from dataclasses import dataclass
 from typing import Any
 
@@ -44,7 +45,7 @@ def _zero_value(fit: str, scales: np.ndarray, energies: np.ndarray, sigma: np.nd
     if fit == "linear":
         slope, intercept = np.polyfit(scales, energies, 1)
         return float(intercept), (float(slope), float(intercept))
-    from scipy.optimize import curve_fit
+    from scipy.optimize import OptimizeWarning, curve_fit
 
     def model(x: np.ndarray, a: float, b: float, c: float) -> np.ndarray:
         return a + b * np.exp(-c * x)
@@ -54,7 +55,9 @@ def _zero_value(fit: str, scales: np.ndarray, energies: np.ndarray, sigma: np.nd
     c0 = max(abs(slope) / spread, 1e-3)
     guess = (energies[-1] + np.sign(slope) * spread, -np.sign(slope) * spread * np.exp(c0 * scales[0]), c0)
     try:
-        (a, b, c), _ = curve_fit(model, scales, energies, p0=guess, maxfev=20000)
+        with warnings.catch_warnings():  # no covariance from exactly determined fits: the error is propagated below
+            warnings.simplefilter("ignore", OptimizeWarning)
+            (a, b, c), _ = curve_fit(model, scales, energies, p0=guess, maxfev=20000)
     except (RuntimeError, ValueError) as err:
         raise NoiseError(f"the exponential zero-noise fit did not converge ({err}); use fit 'linear' or "
                          "'richardson'") from None
