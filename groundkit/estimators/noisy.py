@@ -144,8 +144,11 @@ class NoisyMeasurement(Measurement):
         self.encoding = encoding
         self.device = device
         self.n_qubits = encoding.n_qubits
-        errors = device.errors if device is not None else options.figures()
-        durations = device.durations if device is not None else (options.durations or GateDurations())
+        # explicit errors= / durations= win over a device profile's figures (the routed circuit is kept)
+        errors = options.errors if options.errors is not None else (
+            device.errors if device is not None else options.figures())
+        durations = options.durations if options.durations is not None else (
+            device.durations if device is not None else GateDurations())
         self.noise = DeviceNoise(errors, durations)
         self.rng = np.random.default_rng(options.seed)
         self.backend = options.backend or ("qsim" if qsim_available() else "cirq")

@@ -108,3 +108,19 @@ def test_density_matrix_and_trajectories_agree_within_three_sigma(h2_pipeline, h
     value, error = NoisyEstimator(errors=figures, simulator="trajectories", trajectories=40, shots=40_000,
                                   seed=3).bind(h2_pipeline).estimate(h2_theta)
     assert abs(value - dm) < 3 * error
+
+
+def test_the_density_matrix_equals_cirqs_density_matrix_simulator(h2_pipeline, h2_theta):
+    import numpy as np
+
+    figures = ErrorFigures(one_qubit=2e-3, two_qubit=2e-2, readout=3e-2, t1=40.0, t2=30.0)
+    measurement = NoisyEstimator(errors=figures).bind(h2_pipeline)
+    noisy = measurement.noisy_circuit(h2_theta)
+    qubits = cirq.LineQubit.range(4)
+    reference = cirq.DensityMatrixSimulator(dtype=np.complex128).simulate(noisy, qubit_order=qubits)
+    assert np.allclose(density_matrix(noisy, qubits), reference.final_density_matrix, atol=1e-10)
+    q = cirq.LineQubit.range(3)  # a routing ancilla (q[2]) is traced out
+    small = cirq.Circuit(cirq.H(q[0]), cirq.CNOT(q[0], q[2]), cirq.SWAP(q[2], q[1]), cirq.amplitude_damp(0.3).on(q[1]))
+    full = cirq.DensityMatrixSimulator(dtype=np.complex128).simulate(small, qubit_order=q).final_density_matrix
+    traced = cirq.partial_trace(full.reshape((2,) * 6), [0, 1]).reshape(4, 4)
+    assert np.allclose(density_matrix(small, q[:2]), traced, atol=1e-12)
