@@ -4,13 +4,14 @@ Applied moment by moment to a (routed, native) circuit without measurements:
 
 - after every one-qubit gate a one-qubit depolarising channel of probability ``errors.one_qubit``, after every
   two-qubit gate a two-qubit depolarising channel of probability ``errors.two_qubit`` (identity gates carry none);
-- when T1 and T2 are set, every qubit of the circuit, idle ones included, relaxes for the moment's duration (the
+- when T1 and T2 are set, every qubit of the circuit, idle ones included, relaxes for each moment's duration (the
   longest gate of the moment: ``durations.two_qubit`` if it holds a two-qubit gate, else ``durations.one_qubit``;
-  a moment of identities only takes no time) through amplitude and phase damping (:mod:`.relaxation`);
+  a moment of identities only takes no time) through amplitude and phase damping (:mod:`.relaxation`), inserted
+  once per stretch between a qubit's gates;
 - each measured bit is read through a per-qubit assignment matrix (:meth:`DeviceNoise.assignment`): symmetric,
   flip probability ``errors.readout`` unless ``readout_by_qubit`` gives one per qubit.
 
-The channels are inserted explicitly (a new moment of channels after each moment of gates), so the same model
+The channels are inserted explicitly (moments of channels between the moments of gates), so the same model
 applies to folded circuits for zero-noise extrapolation: each inverse gate errs like its forward gate.
 """
 
@@ -59,16 +60,34 @@ class DeviceNoise:
         return self.durations.two_qubit if max(sizes) >= 2 else self.durations.one_qubit
 
     def noisy(self, circuit: cirq.AbstractCircuit) -> cirq.Circuit:
-        """``circuit`` with the gate and relaxation channels inserted after each moment."""
+        """``circuit`` with the gate and relaxation channels inserted.
+
+        Relaxation over consecutive moments composes exactly (amplitude damping γ_a then γ_b is amplitude damping
+        1 − (1−γ_a)(1−γ_b), likewise phase damping, and the two commute), so a qubit's relaxation is accumulated
+        over the moments since its last gate and inserted once, before its next gate or at the end: the same
+        channel as one insertion per moment, with far fewer operations on wide circuits.
+        """
         e = self.errors
         qubits = sorted(circuit.all_qubits())
+        pending = dict.fromkeys(qubits, 0.0)  # ns of relaxation not yet inserted
         out = cirq.Circuit()
+
+        def flush(targets: list) -> None:
+            channels = []
+            for q in targets:
+                if pending[q] > 0:
+                    channels.extend(relaxation_channels(q, pending[q], e.t1, e.t2))
+                pending[q] = 0.0
+            if channels:
+                out.append(_layers(channels), strategy=cirq.InsertStrategy.NEW_THEN_INLINE)
+
         for moment in circuit:
+            acting = [op for op in moment.operations if not _is_identity(op)]
+            if e.t1 is not None:
+                flush([q for op in acting for q in op.qubits])
             out.append(moment, strategy=cirq.InsertStrategy.NEW_THEN_INLINE)
             channels: list[cirq.Operation] = []
-            for op in moment.operations:
-                if _is_identity(op):
-                    continue
+            for op in acting:
                 k = cirq.num_qubits(op)
                 if k > 2:
                     raise NoiseError(f"gate {op} acts on {k} qubits; the noise model knows one- and two-qubit "
@@ -76,13 +95,14 @@ class DeviceNoise:
                 p = e.one_qubit if k == 1 else e.two_qubit
                 if p > 0:
                     channels.append(depolarising(p, k).on(*op.qubits))
-            if e.t1 is not None:
-                t = self.moment_duration(moment)
-                if t > 0:
-                    for q in qubits:
-                        channels.extend(relaxation_channels(q, t, e.t1, e.t2))
             if channels:
                 out.append(_layers(channels), strategy=cirq.InsertStrategy.NEW_THEN_INLINE)
+            if e.t1 is not None:
+                t = self.moment_duration(moment)
+                for q in qubits:
+                    pending[q] += t
+        if e.t1 is not None:
+            flush(qubits)
         return out
 
     def readout_probability(self, qubit_index: int) -> float:

@@ -54,14 +54,13 @@ def optimal_configuration(pipeline: Any, result: Any = None) -> tuple[Any, np.nd
     """(pipeline with a fixed trial state, θ*): from ``result`` if given, else from an exact-estimator run. A grown
     adaptive state becomes the fixed sequence of its growth records."""
     from ..adaptive import Adaptive
-    from ..adaptive.records import GrowthStep, trial_state_of
+    from ..adaptive.records import grown_trial_state
 
     if result is None:
         result = pipeline.estimator("exact").run()
     theta = np.asarray(result.parameters, dtype=float)
     if isinstance(pipeline.resolved_components()["trial_state"], Adaptive) or result.growth:
-        operators = [op for step in result.growth for op in GrowthStep.from_dict(step).generators()]
-        pipeline = pipeline.trial_state(trial_state_of(operators))
+        pipeline = pipeline.trial_state(grown_trial_state(result))
         energy = pipeline.objective().energy(theta)
         if result.exact_energy is not None and abs(energy - result.exact_energy) > 1e-8:
             raise NoiseError("the grown sequence of this adaptive result does not reproduce its energy "
