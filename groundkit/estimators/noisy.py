@@ -165,6 +165,7 @@ class NoisyMeasurement(Measurement):
         mask = sector_mask(encoding) if "symmetry" in options.mitigation else None
         self.reader = GroupReader(self.constant, self.groups, self.n_qubits, assignment, weights, mask)
         self._record: dict[str, Any] | None = None
+        self._trajectories = options.trajectories
 
     # circuits ----------------------------------------------------------------------------------------------
     def circuit(self, theta: np.ndarray) -> tuple[cirq.Circuit, list[cirq.Qid]]:
@@ -224,6 +225,7 @@ class NoisyMeasurement(Measurement):
                     raise NoiseError(f"shots={shots} are too few for trajectories over {len(self.groups)} "
                                      f"measurement groups; give at least {2 * len(self.groups)} (one shot per group "
                                      "and trajectory, two trajectories)")
+            self._trajectories = count
             seed = int(self.rng.integers(2 ** 31))
             states, density = statevector_runs(noisy, qubits, count, seed, self.backend), False
         if shots is None:
@@ -242,7 +244,7 @@ class NoisyMeasurement(Measurement):
             "noise_model": self.noise.describe(),
             "device": None if self.device is None else self.device.name,
             "simulator": o.simulator,
-            "trajectories": None if o.simulator == "density-matrix" else o.trajectories,
+            "trajectories": None if o.simulator == "density-matrix" else self._trajectories,
             "backend": None if o.simulator == "density-matrix" else self.backend,
             "shots": o.shots,
             "mitigation": list(o.mitigation),

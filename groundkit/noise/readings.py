@@ -78,6 +78,20 @@ class GroupReader:
             return group.values(outcomes)
         return shot_values(outcomes, group.masks, group.coefficients, self.n, self.weights)
 
+    def _read_shots(self, rng: np.random.Generator, p: np.ndarray, count: int) -> tuple[np.ndarray, np.ndarray]:
+        """(distinct read outcomes, their counts) of ``count`` shots: true outcomes drawn from ``p``, then each
+        bit read through its qubit's assignment matrix (independent per qubit, as A = ⊗ A_q says)."""
+        true = rng.multinomial(count, p / p.sum())
+        outcomes = np.repeat(np.flatnonzero(true), true[true > 0])
+        shifts = self.n - 1 - np.arange(self.n)
+        bits = (outcomes[:, None] >> shifts[None, :]) & 1
+        flip_probability = np.array([[a[1, 0], a[0, 1]] for a in self.assignment])  # P(flip | true 0), (| true 1)
+        chance = flip_probability[np.arange(self.n)[None, :], bits]
+        bits = bits ^ (rng.random(bits.shape) < chance)
+        read = bits @ (1 << shifts)
+        seen, counts = np.unique(read, return_counts=True)
+        return seen.astype(np.int64), counts
+
     # exact expectations ----------------------------------------------------------------------------------
     def exact(self, states: list[np.ndarray], density: bool) -> Reading:
         """The expectation under the noise (no shots); with trajectories, its standard error over them."""
@@ -117,13 +131,10 @@ class GroupReader:
                     int(rng.binomial(int(shots_per_group[g]), min(max(keep, 0.0), 1.0)))
                 if count == 0:
                     continue
-                read = apply_per_qubit((p / keep).reshape((2,) * self.n), self.assignment).reshape(-1)
-                read = np.clip(read, 0.0, None)
-                counts = rng.multinomial(count, read / read.sum())
-                seen = np.flatnonzero(counts)
+                seen, counts = self._read_shots(rng, p / keep, count)
                 values = self._values(seen, group)
-                sums[k, g] = counts[seen] @ values
-                squares[k, g] = counts[seen] @ (values * values)
+                sums[k, g] = counts @ values
+                squares[k, g] = counts @ (values * values)
                 kept[k, g] = count
         total_shots = int(np.sum(shots_per_group)) * k_states
         fraction = float(kept.sum() / total_shots)

@@ -53,3 +53,12 @@ def test_thresholds_refuse_bad_input_and_explain_a_missed_target(h2_pipeline, h2
     far = dataclasses.replace(h2_result, parameters=h2_result.parameters * 0 + 0.5)  # far from the optimum
     missed = noise_threshold(h2_pipeline, errors=FIGURES, result=far)
     assert missed.two_qubit == 0.0 and "without noise" in missed.reason
+
+
+def test_compare_adds_threshold_columns(h2_pipeline):
+    import groundkit as gk
+
+    table = gk.compare(h2_pipeline, trial_states=["uccsd"], noise_threshold={"errors": FIGURES, "tolerance": 0.5})
+    row = table.iloc[0]
+    assert row["threshold_two_qubit"] > 0 and row["threshold_note"] == ""
+    assert row["threshold_two_qubit"] == pytest.approx(row["threshold_factor"] * FIGURES.two_qubit)
