@@ -79,6 +79,7 @@ from .minimisers import (
     minimiser_from_name,
 )
 from .molecule import MoleculeSpec
+from .noise.threshold import NoiseThreshold, noise_threshold
 from .objective import Objective
 from .persistence import load_result
 from .pipeline import Pipeline
@@ -106,6 +107,7 @@ __all__ = [
     "ReferenceDeterminant", "History", "IntegralConsistencyError", "IterationRecord", "LBFGSB", "MINIMISER_NAMES",
     "Measurement", "Minimiser",
     "MinimiserOutcome", "MoleculeError", "MoleculeSpec", "MultiplicityError", "NOISY_QUBIT_LIMIT", "NelderMead",
+    "NoiseThreshold",
     "NoisyEstimator", "Objective", "OperatorPool", "PairDoubles", "ParameterError", "PauliRotations", "PauliStringPool",
     "Pipeline", "Problem", "QubitEncoding", "QubitMapping", "QubitObjective", "QubitPool", "QubitTrialState",
     "Reference", "ReferenceRecord", "ResolvedActiveSpace", "Resources", "ResultFileError", "RunResult", "SPSA",
@@ -115,6 +117,6 @@ __all__ = [
     "as_mapping", "as_minimiser", "as_trial_state", "build_problem", "circuit_from_openqasm", "circuit_resources",
     "compare", "compare_mappings", "compare_measurements", "explore", "grown_sequence", "grown_trial_state",
     "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
-    "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits",
+    "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits", "noise_threshold",
     "DeviceCircuit", "DeviceError", "DeviceProfile", "compare_devices", "compile_for_device",
 ]

@@ -9,9 +9,9 @@ Infinity, 1e400, or integers beyond 300 digits), no key appears twice in one obj
 fields (lengths, index order) live in :mod:`groundkit.file_checks`.
 
 Fields added after version 1 was first written (``growth``, ``suspect_baselines``, ``baseline_notes``,
-``exact_energy``, the device fields of ``resources``) are optional, so files of earlier releases still load.
-Records that later releases may extend (top level, provenance, resources, checkpoint envelopes) accept additional
-keys of plain JSON; loading ignores them.
+``exact_energy``, the device fields of ``resources``, ``noise``) are optional, so files of earlier releases still
+load. Records that later releases may extend (top level, provenance, resources, checkpoint envelopes) accept
+additional keys of plain JSON; loading ignores them.
 """
 
 from __future__ import annotations
@@ -162,6 +162,21 @@ DEFS: dict[str, Any] = {
         "description": "a growth record (step, operators, label, gradient, gradient_norm, energy, error, "
                        "parameters, two_qubit_gates, iterations, minimiser_converged, wall_time)",
     },
+    "noise_record": {
+        "type": "object",
+        "required": ["noise_model", "simulator", "mitigation", "kept_fraction"],
+        "properties": {
+            "noise_model": {"type": "object", "description": "an object with the error figures and durations"},
+            "simulator": {"enum": ["density-matrix", "trajectories"],
+                          "description": "\"density-matrix\" or \"trajectories\""},
+            "mitigation": _list_of("text", "a list of mitigation names"),
+            "kept_fraction": {"type": "number", "minimum": 0, "maximum": 1 + ROUNDING,
+                              "description": "a fraction from 0 to 1"},
+            "extrapolation": {"type": ["object", "null"], "description": "a zero-noise fit (an object) or null"},
+        },
+        "additionalProperties": _ref("plain"),
+        "description": "a noise record (noise_model, simulator, mitigation, kept_fraction, ...)",
+    },
     "run_result": {
         "type": "object",
         "required": ["schema", "version", "energy", "standard_error", "parameters", "parameter_labels", "history",
@@ -190,6 +205,7 @@ DEFS: dict[str, Any] = {
             "resources": _ref("resources"),
             "provenance": _ref("provenance"),
             "growth": _list_of("growth_step", "a list of growth records"),
+            "noise": _ref("noise_record"),
         },
         "additionalProperties": _ref("plain"),
         "description": "a groundkit run result (a JSON object)",

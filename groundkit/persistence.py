@@ -46,6 +46,7 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
         "resources": asdict(result.resources),
         "provenance": result.provenance,
         "growth": [dict(step) for step in result.growth],
+        **({} if result.noise is None else {"noise": result.noise}),
     }
 
 
@@ -157,6 +158,7 @@ def build_result(data: dict[str, Any]) -> RunResult:
         growth=tuple(_growth_step(step) for step in data.get("growth", ())),  # absent before adaptive runs
         # files written before the baseline checks have neither
         suspect_baselines=dict(data.get("suspect_baselines", {})),
+        noise=data.get("noise"),  # absent before noisy runs recorded their noise, and for other estimators
         baseline_notes=dict(data.get("baseline_notes", {})),
     )
 

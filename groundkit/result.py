@@ -38,6 +38,14 @@ def verdict_text(verdict: str) -> str:
     return VERDICT_WORDING[verdict]
 
 
+def noise_text(noise: dict[str, Any]) -> str:
+    """One line: the noise model's rates, the simulator and the mitigation of a noisy result."""
+    errors = noise.get("noise_model", {}).get("errors", {}).get("options", {})
+    rates = ", ".join(f"{k} {v:.3g}" for k, v in errors.items() if isinstance(v, (int, float)))
+    mitigation = ", ".join(noise.get("mitigation", [])) or "none"
+    return f"{rates}; {noise.get('simulator')}; mitigation {mitigation}; kept {noise.get('kept_fraction', 1):.3f}"
+
+
 @dataclass(frozen=True)
 class History:
     """Per-iteration record of a minimisation: energy (Ha), gradient norm (Ha/rad, None where unknown),
@@ -125,6 +133,9 @@ class RunResult:
     """Baseline -> why its value failed a plausibility check (see docs/baselines.md); absent when it passed."""
     baseline_notes: dict[str, str] = field(default_factory=dict)
     """Baseline -> why it is missing or suspect, or how it was found; absent when there is nothing to say."""
+    noise: dict[str, Any] | None = None
+    """Noisy runs only: the noise model, simulator, mitigation, kept fraction and any zero-noise fit of the final
+    estimate (plain data, see docs/noise.md); None for other estimators."""
 
     def baseline_status(self, name: str) -> str:
         """'missing', 'suspect' or 'ok' for one baseline."""
@@ -148,6 +159,11 @@ class RunResult:
     def estimator_bias(self) -> float | None:
         """energy − exact energy of the same parameters (Ha): statistical error plus any noise bias."""
         return None if self.exact_energy is None else self.energy - self.exact_energy
+
+    @property
+    def kept_fraction(self) -> float | None:
+        """Noisy runs: fraction of shots (or probability) kept by symmetry post-selection; None otherwise."""
+        return None if self.noise is None else self.noise.get("kept_fraction")
 
     @property
     def verdict(self) -> str:
@@ -174,6 +190,7 @@ class RunResult:
             *([f"{'exact energy, same params':<28}{self.exact_energy:>18.10f} Ha  (estimator bias "
                f"{1000 * self.estimator_bias:+.4f} mHa)"]
               if self.exact_energy is not None and abs(self.exact_energy - self.energy) > 1e-12 else []),
+            *([f"{'noise':<28}{noise_text(self.noise)}"] if self.noise is not None else []),
             f"{'fidelity with exact state':<28}{self.fidelity:>18.6f}",
             f"{'<S^2> / <N>':<28}{self.spin_square:>18.6f} / {self.particle_number:.6f}",
             "",

@@ -109,6 +109,7 @@ def build_result(
         energy=float(final_energy),
         standard_error=float(standard_error),
         exact_energy=float(objective.energy(theta)),
+        noise=None if measurement is None else measurement.record(),
         parameters=theta.copy(),
         parameter_labels=tuple(objective.parameter_labels),
         history=history,

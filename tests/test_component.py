@@ -12,6 +12,7 @@ import sympy
 
 import groundkit as gk
 from groundkit.component import component_from_dict
+from groundkit.device import ErrorFigures, GateDurations
 from groundkit.registry import entries, lookup
 from groundkit.studies.toml_file import read_study
 
@@ -40,6 +41,9 @@ EXAMPLES = [
     gk.ExactEstimator(), gk.SampledEstimator(shots=500, grouping="none", allocation="uniform", seed=3,
                                              gradient_step=0.2),
     gk.NoisyEstimator(one_qubit=0.0, two_qubit=0.05, readout=0.0, shots=100, seed=1, gradient_step=0.3),
+    gk.NoisyEstimator(errors=ErrorFigures(two_qubit=2e-3, t1=50.0, t2=40.0), durations=GateDurations(two_qubit=200.0),
+                      simulator="trajectories", trajectories=20, mitigation=("symmetry", "zne"), zne_fit="linear",
+                      zne_scales=(1.0, 2.0, 3.0), calibration_shots=500),
     gk.FixedStepDescent(step=0.3, difference_step=1e-4), gk.Adam(beta1=0.8, step=0.02), gk.BFGS(max_iterations=10),
     gk.LBFGSB(bounds=(-3.0, 3.0), memory=5), gk.COBYLA(initial_step=0.2), gk.NelderMead(adaptive=True),
     gk.SPSA(seed=3, A=5.0, window=10),
@@ -181,8 +185,8 @@ def test_a_study_file_gives_lists_for_tuple_options(tmp_path):
     (lambda: gk.NoisyEstimator(seed=-2), r"NoisyEstimator\(seed=-2\): seed must be None or an integer >= 0"),
     (lambda: gk.SPSA(seed=-3), r"SPSA\(seed=-3\): seed must be None or an integer >= 0"),
     (lambda: gk.HardwareEfficient(seed=-4), r"HardwareEfficient\(seed=-4\): seed must be an integer >= 0"),
-    (lambda: gk.NoisyEstimator(readout=1.5), r"NoisyEstimator\(readout=1.5\): readout must be a finite number "
-                                             r"with 0 <= value <= 1"),
+    (lambda: gk.NoisyEstimator(readout=1.5), r"NoisyEstimator\(readout=1.5\): readout must be None or a finite "
+                                             r"number with 0 <= value <= 1"),
     (lambda: gk.UCCSD(spin_adapted="yes"), r"UCCSD\(spin_adapted='yes'\): spin_adapted must be True or False"),
     (lambda: gk.UpCCGSD(k=0), r"UpCCGSD\(k=0\): k must be an integer from 1 to 64"),
     (lambda: gk.COBYLA(initial_step=math.nan), r"COBYLA\(initial_step=nan\): initial_step must be a finite number "

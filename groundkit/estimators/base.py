@@ -34,6 +34,11 @@ class Measurement(ABC):
         measurement has not estimated there (or keeps no record)."""
         return 0.0 if self.exact else None
 
+    def record(self) -> dict[str, Any] | None:
+        """Plain data that results keep about the last estimate (noise model, mitigation, kept fraction), or None
+        for measurements that have nothing to add."""
+        return None
+
     def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
         """(energy, gradient in Ha/rad); only when ``provides_gradient``."""
         from ..errors import ComponentError

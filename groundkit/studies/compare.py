@@ -50,6 +50,7 @@ def compare(
     minimisers: Sequence[Any] | None = None,
     executor: Any = None,
     progress: bool = False,
+    noise_threshold: dict[str, Any] | bool | None = None,
 ) -> Any:
     """Run every combination on the pipeline's molecule and active space; returns a pandas DataFrame.
 
@@ -61,6 +62,11 @@ def compare(
     within_chemical_accuracy (True only when the verdict is 'within'), the resource counts, shot_budget (shots
     for a 1.6 mHa standard error where the estimator samples and the pipeline can tell, else None), converged,
     iterations, wall_time (s), failure.
+
+    ``noise_threshold=True`` (or a dict of :func:`groundkit.noise_threshold` options, e.g. ``{"mitigation":
+    ["zne"], "errors": ErrorFigures(...)}``) adds, for each finished row, the noise threshold at the row's final
+    parameters: columns threshold_two_qubit (largest two-qubit error rate within the target, every rate scaled
+    together), threshold_factor, threshold_confidence and threshold_note (why there is none, or a refusal).
 
     A combination that groundkit refuses or cannot solve (a GroundkitError) becomes a row whose ``failure`` says
     why; any other exception is a programming error and is raised.
@@ -125,5 +131,23 @@ def compare(
         row["iterations"] = result.iterations if result else 0
         row["wall_time"] = float(answer["wall_time"])
         row["failure"] = answer["error"]
+        if noise_threshold:
+            row.update(_threshold_columns(_variant(pipeline, combination), result, noise_threshold))
         rows.append(row)
     return pd.DataFrame(rows)
+
+
+def _threshold_columns(pipeline: Pipeline, result: Any, options: dict[str, Any] | bool) -> dict[str, Any]:
+    """The noise-threshold columns of one grid row (None values and a note when it cannot be found)."""
+    from groundkit.errors import GroundkitError
+    from groundkit.noise.threshold import noise_threshold
+
+    empty = {"threshold_two_qubit": None, "threshold_factor": None, "threshold_confidence": None}
+    if result is None:
+        return {**empty, "threshold_note": "no result"}
+    try:
+        found = noise_threshold(pipeline, result=result, **({} if options is True else dict(options)))
+    except GroundkitError as err:
+        return {**empty, "threshold_note": str(err)}
+    return {"threshold_two_qubit": found.two_qubit, "threshold_factor": found.factor,
+            "threshold_confidence": found.confidence, "threshold_note": found.reason}
