@@ -294,9 +294,8 @@ def role_texts(configuration: Configuration) -> dict[str, str]:
 def label_of(configuration: Configuration, options: dict[str, list[Any]]) -> str:
     """The configuration's label: the texts of the roles that vary in this plan, joined by ' · '."""
     texts = role_texts(configuration)
-    varied = [role for role in ROLES if role != "tapering" and len(options[role]) > 1]
-    if len(options["tapering"]) > 1 and "mapping" not in varied:
-        varied.insert(1, "mapping")
+    varied = [role for role in ROLES if role != "tapering" and (len(options[role]) > 1 or (
+        role == "mapping" and len(options["tapering"]) > 1))]
     return " · ".join(texts[role] for role in varied if role in texts) or texts["trial_state"]
 
 
