@@ -137,10 +137,13 @@ def shot_time_us(circuit: Any, durations: Any) -> float:
 
 def gradient_estimates(pipeline: Any) -> int:
     """Energy estimates per parameter for one gradient on a device (shift rules; see the constants above)."""
+    from groundkit.adaptive import Adaptive, PauliStringPool, QubitPool
     from groundkit.qubit_states import QubitTrialState
 
     trial_state = pipeline.resolved_components()["trial_state"]
-    return GRADIENT_ESTIMATES_PAULI if isinstance(trial_state, QubitTrialState) else GRADIENT_ESTIMATES_FERMIONIC
+    pauli = isinstance(trial_state, QubitTrialState) or (
+        isinstance(trial_state, Adaptive) and isinstance(trial_state.pool, (QubitPool, PauliStringPool)))
+    return GRADIENT_ESTIMATES_PAULI if pauli else GRADIENT_ESTIMATES_FERMIONIC
 
 
 def noise_figure(pipeline: Any, device: Any, mitigation: Any, target: float) -> list[Any]:

@@ -139,15 +139,19 @@ def run_key(configuration: Configuration, kept: tuple[str, ...] = ()) -> tuple:
 
 def prepare(molecule: Any, configuration: Configuration) -> tuple[tuple, str]:
     """(run key, why the configuration cannot run or ''): its objective and register at the first geometry."""
+    from groundkit.adaptive import Adaptive
+
     try:
         pipeline = pipeline_of(molecule, configuration.run_components())
         pipeline.check_size(("scf", "integrals", "engine"), "this configuration")
-        objective = pipeline.objective()
+        growing = isinstance(pipeline.resolved_components()["trial_state"], Adaptive)
         pipeline.encoding()
+        # an adaptive state has no objective before it grows; on a tapered register it runs per mapping
+        kept = (repr(configuration.mapping),) if growing else tuple(pipeline.objective().parameter_labels)
     except GroundkitError as err:
         return run_key(configuration), f"{type(err).__name__}: {err}"
     tapered = pipeline.resolved_components()["mapping"].taper
-    return run_key(configuration, tuple(objective.parameter_labels) if tapered else ()), ""
+    return run_key(configuration, kept if tapered else ()), ""
 
 
 def _evaluate(configurations: list[Configuration], options: dict[str, list[Any]], molecules: list[Any],

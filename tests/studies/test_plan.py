@@ -198,3 +198,18 @@ def test_parallel_plan_equals_serial():
     parallel = gk.plan(geometries, choices, executor="processes")
     assert parallel.table.equals(serial.table)
     assert not math.isnan(serial.rows[0]["device_hours"])
+
+
+def test_mapping_dependent_states_get_a_run_per_mapping():
+    geometries = (gk.BondStretch(h2(0.74)), [0.74, 1.2])
+    plan = gk.plan(geometries, {"mapping": ["jordan-wigner", "parity"], "tapering": [False, True],
+                                "trial_state": [gk.Adaptive()]})
+    # an adaptive fermionic pool grows the same sequence under every untapered mapping: one shared run; a tapered
+    # register runs per mapping
+    assert plan.shared["runs"] == 3 and len(plan.rows) == 4 and not plan.skipped
+    assert all("pool-gradient measurements not counted" in r["notes"] for r in plan.rows)
+    assert all(r["worst_error_mha"] < 1e-3 for r in plan.rows)  # exact for two electrons (common practice)
+    hardware = gk.plan(([h2(0.74)]), {"mapping": ["jordan-wigner", "parity"],
+                                      "trial_state": [gk.HardwareEfficient(layers=1)]})
+    assert hardware.shared["runs"] == 2  # qubit trial states depend on the register
+    assert hardware.rows[0]["run"] != hardware.rows[1]["run"]
