@@ -196,6 +196,7 @@ def _evaluate(configurations: list[Configuration], options: dict[str, list[Any]]
             continue
         rows.append(_row(configuration, k, scan_of[k], figures[(k, configuration.mapping)], options, target,
                          limits, wants_noise))
+    _unique_labels(rows)
     skipped_rows = [{"configuration": label_of(c, options), "reason": skipped[(run_of[id(c)], c.mapping)]}
                     for c in configurations if skipped[(run_of[id(c)], c.mapping)]]
     curves = tuple(RunCurve(index=k, label=_run_label(runs[k]), scan=scan_of[k]) for k in valid_runs)
@@ -394,6 +395,16 @@ def _row(configuration: Configuration, run: int, scan: Any, figures: list[dict |
                 "meets": bool(meets_target and complete and not broken), "reason": "; ".join(reasons),
                 "notes": "; ".join(notes)})
     return row
+
+
+def _unique_labels(rows: list[dict[str, Any]]) -> None:
+    """Number repeated labels (two candidates that read alike, e.g. devices of one name): 'label #2', ..."""
+    seen: dict[str, int] = {}
+    for row in rows:
+        label = row["configuration"]
+        seen[label] = seen.get(label, 0) + 1
+        if seen[label] > 1:
+            row["configuration"] = f"{label} #{seen[label]}"
 
 
 def result_growth(scan: Any) -> bool:

@@ -86,3 +86,11 @@ def test_bad_frontier_cost():
 
     with pytest.raises(PlanInputError, match="frontier\\(by='depth'\\)"):
         plan_of([row("a", 1.0, 1, 1.0)]).frontier("depth")
+
+
+def test_labels_that_read_alike_are_numbered():
+    from groundkit.studies.planning import _unique_labels
+
+    rows = [{"configuration": "x"}, {"configuration": "y"}, {"configuration": "x"}, {"configuration": "x"}]
+    _unique_labels(rows)
+    assert [r["configuration"] for r in rows] == ["x", "y", "x #2", "x #3"]
