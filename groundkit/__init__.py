@@ -90,7 +90,20 @@ from .reference import ExactState, Reference
 from .registry import register, unregister
 from .result import CHEMICAL_ACCURACY, History, ReferenceRecord, Resources, RunResult
 from .sizing import CostEstimate, Limits, cost_estimate, limits
-from .studies import BondStretch, GeometryOptimum, ScanPoint, ScanResult, compare, load_scan
+from .studies import (
+    BondStretch,
+    GeometryOptimum,
+    PlanInputError,
+    PlanLimits,
+    PlanResult,
+    Recommendation,
+    ScanPoint,
+    ScanResult,
+    compare,
+    load_plan,
+    load_scan,
+    plan,
+)
 from .trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, TrialState, UpCCGSD
 from .widgets import explore
 
@@ -119,4 +132,5 @@ __all__ = [
     "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
     "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits", "noise_threshold",
     "DeviceCircuit", "DeviceError", "DeviceProfile", "compare_devices", "compile_for_device",
+    "PlanInputError", "PlanLimits", "PlanResult", "Recommendation", "load_plan", "plan",
 ]

@@ -1,4 +1,5 @@
-"""Command line: ``python -m groundkit run study.toml [--resume | --overwrite]`` (also installed as ``groundkit``).
+"""Command line: ``python -m groundkit run study.toml [--resume | --overwrite]`` (also installed as ``groundkit``)
+and ``python -m groundkit plan plan.toml [--resume | --overwrite]`` (see docs/plan.md).
 
 Exit status: 0 done; 1 some scan points failed (their rows say why); 2 bad input (the study file, an existing
 output, a checkpoint in use or of another configuration), with the message on standard error; 3 a crash (a
@@ -47,6 +48,14 @@ def parser() -> argparse.ArgumentParser:
                      help="with --resume, compute the scan points that failed before once more (their earlier "
                           "failures are kept in scan.json)")
     run.add_argument("--quiet", action="store_true", help="no progress bar and no summary on standard output")
+    planned = commands.add_parser(
+        "plan", help="run a TOML plan file (configurations crossed over a curve, costed on devices)",
+        description="Run a TOML plan file; writes plan.csv, plan.png, plan.json and plan.html (see docs/plan.md).")
+    planned.add_argument("study", help="path of the TOML plan file")
+    again = planned.add_mutually_exclusive_group()
+    again.add_argument("--resume", action="store_true", help="continue an interrupted plan from its checkpoint")
+    again.add_argument("--overwrite", action="store_true", help="replace the outputs already in the directory")
+    planned.add_argument("--quiet", action="store_true", help="no progress bar and no summary on standard output")
     return top
 
 
@@ -56,6 +65,8 @@ def main(argv: list[str] | None = None) -> int:
     from .studies.toml_file import read_study
 
     args = parser().parse_args(argv)
+    if args.command == "plan":
+        return _plan(args)
     study = None
     try:
         study = read_study(args.study)
@@ -93,3 +104,31 @@ def _save_report(report: str, path: str | None) -> str | None:
     except OSError:
         return None
     return path
+
+
+def _plan(args: argparse.Namespace) -> int:
+    """``plan`` command: 0 done, 2 bad input, 3 crash, 130 Ctrl-C (finished minimisations stay checkpointed)."""
+    from .studies.plan_file import read_plan_file, run_plan_file
+
+    study = None
+    try:
+        study = read_plan_file(args.study)
+        text = run_plan_file(study, resume=args.resume, overwrite=args.overwrite, progress=not args.quiet)
+    except GroundkitError as err:
+        print(f"groundkit: error: {err}", file=sys.stderr)
+        return BAD_INPUT
+    except KeyboardInterrupt:
+        where = "" if study is None else f"; continue with --resume (checkpoint in {study.output})"
+        print(f"groundkit: interrupted{where}", file=sys.stderr)
+        return INTERRUPTED
+    except Exception as err:  # a bug: say so, keep the traceback
+        report = traceback.format_exc()
+        saved = _save_report(report, None if study is None else os.path.join(study.output, "crash-traceback.txt"))
+        print(report, file=sys.stderr, end="")
+        print(f"groundkit: crashed (a bug in groundkit, please report it): {type(err).__name__}: {err}"
+              + (f"; traceback saved in {saved}" if saved else ""), file=sys.stderr)
+        return CRASHED
+    if not args.quiet:
+        print(text)
+        print(f"written to {study.output}")
+    return DONE

@@ -1,5 +1,5 @@
 """The JSON Schema documents (Draft 2020-12) of every file groundkit writes: run results, scans, checkpoint
-manifests and checkpoint point files.
+manifests, checkpoint point files and plans.
 
 The documents are plain dicts, readable as JSON Schema by any validator. ``description`` of each node is what an
 error message says is accepted there. Three facts hold for every file before a schema sees it (checked by
@@ -24,6 +24,7 @@ RUN_RESULT_NAME = "groundkit.run-result"
 SCAN_NAME = "groundkit.scan-result"
 MANIFEST_NAME = "groundkit.scan-checkpoint"
 POINT_FILE_NAME = "groundkit.scan-point"
+PLAN_NAME = "groundkit.plan-result"
 VERSION_TEXT = f"the whole number {VERSION} (the version this groundkit reads)"
 CHECKPOINT_VERSION = 2  # checkpoint point files carry a checksum since version 2
 CHECKPOINT_VERSIONS = (1, 2)  # version 1 (earlier releases): point files without a checksum
@@ -360,13 +361,77 @@ POINT_FILE = _document("scan-point", "groundkit checkpoint point file", {
 })
 """``point-NNNNN.json`` of a checkpoint directory."""
 
+_PLAN_ROW_NUMBERS = ("worst_error_mha", "worst_geometry", "non_parallelity_mha", "shots_per_energy", "shot_time_us",
+                     "device_hours", "noise_threshold", "active_space_error_mha")
+_PLAN_ROW_COUNTS = ("qubits", "two_qubit_gates", "depth", "swaps")
+_PLAN_ROW_TEXTS = ("configuration", "active_space", "mapping", "trial_state", "minimiser", "grouping", "device",
+                   "mitigation", "reason", "notes")
+PLAN_ROW = {
+    "type": "object",
+    "required": [*_PLAN_ROW_TEXTS, "run", *_PLAN_ROW_NUMBERS[:6], *_PLAN_ROW_COUNTS, "evaluations",
+                 "energy_estimates", "meets_target", "within_limits", "meets"],
+    "properties": {
+        **{name: _ref("text") for name in _PLAN_ROW_TEXTS},
+        "run": _ref("count"),
+        **{name: _ref("number_or_null") for name in _PLAN_ROW_NUMBERS},
+        **{name: _ref("count_or_null") for name in _PLAN_ROW_COUNTS},
+        "evaluations": _ref("count"),
+        "energy_estimates": _ref("count"),
+        "meets_target": _ref("flag"),
+        "within_limits": _ref("flag"),
+        "meets": _ref("flag"),
+    },
+    "additionalProperties": False,
+    "description": "a plan row (configuration, roles, run, errors, resources, shots, device time, verdicts)",
+}
+PLAN = _document("plan-result", "groundkit plan", {
+    "type": "object",
+    "required": ["schema", "version", "target", "limits", "noise_threshold", "shared", "rows", "curves", "skipped"],
+    "properties": {
+        **_envelope(PLAN_NAME),
+        "target": {"type": "number", "exclusiveMinimum": 0, "description": "a finite number > 0 (Ha)"},
+        "limits": {"type": "object",
+                   "properties": {name: {"type": ["number", "null"], "exclusiveMinimum": 0,
+                                         "description": "a cap > 0 or null"}
+                                  for name in ("qubits", "two_qubit_gates", "shots_per_energy", "device_hours",
+                                               "noise_threshold")},
+                   "additionalProperties": False,
+                   "description": "an object of caps (qubits, two_qubit_gates, shots_per_energy, device_hours, "
+                                  "noise_threshold), each > 0 or null"},
+        "noise_threshold": _ref("flag"),
+        "shared": {"type": "object", "additionalProperties": _ref("count"),
+                   "description": "an object: figure → whole number ≥ 0"},
+        "rows": {"type": "array", "items": PLAN_ROW, "description": "a list of plan rows"},
+        "curves": {"type": "array", "items": {
+            "type": "object", "required": ["index", "label", "scan"],
+            "properties": {"index": _ref("count"), "label": _ref("text"), "scan": {
+                "type": "object", "required": ["configuration", "warm_start", "points"],
+                "properties": {"configuration": {"type": "object", "additionalProperties": _ref("text"),
+                                                 "description": "an object: role → description (a string)"},
+                               "warm_start": _ref("text"),
+                               "points": _list_of("scan_point", "a list of scan points")},
+                "additionalProperties": False, "description": "a scan (configuration, warm_start, points)"}},
+            "additionalProperties": False, "description": "a shared run (index, label, scan)"},
+            "description": "a list of shared runs"},
+        "skipped": {"type": "array", "items": {
+            "type": "object", "required": ["configuration", "reason"],
+            "properties": {"configuration": _ref("text"), "reason": _ref("text")}, "additionalProperties": False,
+            "description": "a skipped configuration (configuration, reason)"},
+            "description": "a list of skipped configurations"},
+    },
+    "additionalProperties": _ref("plain"),
+    "description": "a groundkit plan (a JSON object)",
+})
+"""A file written by ``PlanResult.save``."""
+
 ENVELOPE_VERSIONS = {RUN_RESULT_NAME: (VERSION,), SCAN_NAME: (VERSION,), MANIFEST_NAME: CHECKPOINT_VERSIONS,
-                     POINT_FILE_NAME: CHECKPOINT_VERSIONS}
+                     POINT_FILE_NAME: CHECKPOINT_VERSIONS, PLAN_NAME: (VERSION,)}
 ENVELOPES = {name: _document(f"{name}-envelope", f"{name} envelope", {
     "type": "object", "required": ["schema", "version"], "properties": _envelope(name, ENVELOPE_VERSIONS[name]),
     "description": f"a groundkit file with \"schema\": \"{name}\""})
-    for name in (RUN_RESULT_NAME, SCAN_NAME, MANIFEST_NAME, POINT_FILE_NAME)}
+    for name in ENVELOPE_VERSIONS}
 """The schema name and version alone, checked first so that a file of another kind or version says so."""
 
-DOCUMENTS = {RUN_RESULT_NAME: RUN_RESULT, SCAN_NAME: SCAN, MANIFEST_NAME: MANIFEST, POINT_FILE_NAME: POINT_FILE}
+DOCUMENTS = {RUN_RESULT_NAME: RUN_RESULT, SCAN_NAME: SCAN, MANIFEST_NAME: MANIFEST, POINT_FILE_NAME: POINT_FILE,
+             PLAN_NAME: PLAN}
 """Schema name → JSON Schema document."""

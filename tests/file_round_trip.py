@@ -16,7 +16,8 @@ import pytest
 import groundkit as gk
 from tests.saved_files import reload_equal
 
-KINDS = {"groundkit.run-result": "result", "groundkit.scan-result": "scan", "groundkit.scan-point": "point"}
+KINDS = {"groundkit.run-result": "result", "groundkit.scan-result": "scan", "groundkit.scan-point": "point",
+         "groundkit.plan-result": "plan"}
 MAX_FILES = 200  # per test; a test writing more is sampled by name order
 _counts = {"loaded": 0, "refused": 0}
 

@@ -83,9 +83,15 @@ def scan_dict(scan: gk.ScanResult) -> dict:
 
 
 def reload_equal(kind: str, path: Any, folder: Any) -> bool:
-    """Load ``path`` (kind 'result', 'scan' or 'point'), save it again under ``folder``, load that: True when the two
-    loaded objects are equal. Raises whatever the first load raises."""
+    """Load ``path`` (kind 'result', 'scan', 'point' or 'plan'), save it again under ``folder``, load that: True when
+    the two loaded objects are equal. Raises whatever the first load raises."""
     again = os.path.join(folder, f"again-{kind}.json")
+    if kind == "plan":
+        from groundkit.studies.plan_persistence import plan_to_dict
+
+        first = gk.load_plan(path)
+        first.save(again)
+        return plan_to_dict(gk.load_plan(again)) == plan_to_dict(first)
     if kind == "result":
         first = gk.load_result(path)
         first.save(again)
