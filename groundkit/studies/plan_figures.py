@@ -76,7 +76,7 @@ def figure_task(task: FigureTask) -> dict[str, Any]:
     for device in task.devices:
         answer["devices"].append(device_figures(pipeline, objective, theta, device))
         if task.mitigations is not None:
-            answer["noise"].append([noise_figure(pipeline, device, m, task.target) for m in task.mitigations])
+            answer["noise"].append([noise_figure(pipeline, device, m, task.target, theta) for m in task.mitigations])
     return answer
 
 
@@ -109,8 +109,6 @@ def device_figures(pipeline: Any, objective: Any, theta: np.ndarray, device: Any
     out["shot_time_us"] = shot_time_us(circuit, durations)
     if device is None:
         out["note"] = "logical circuit (all-to-all, no SWAPs), default gate durations (illustrative)"
-    elif not out["routed"]:
-        out["note"] = "this groundkit does not route yet: logical circuit timed with the device's durations"
     return out
 
 
@@ -123,16 +121,13 @@ def device_durations(device: Any) -> Any:
 
 
 def shot_time_us(circuit: Any, durations: Any) -> float:
-    """Microseconds for one shot of ``circuit``: each moment lasts its longest operation (ns), then measurement,
-    reset (ns) and the per-shot overhead (µs)."""
-    total_ns = 0.0
-    for moment in circuit:
-        widths = [len(op.qubits) for op in moment.operations]
-        if not widths:
-            continue
-        total_ns += durations.two_qubit if max(widths) >= 2 else durations.one_qubit
-    total_ns += durations.measurement + durations.reset
-    return total_ns / 1000.0 + durations.shot_overhead
+    """Microseconds for one shot of ``circuit`` (a ``DeviceCircuit`` or a Cirq circuit): reset, the circuit (each
+    moment as long as its slowest gate; ``groundkit.device.timing``), one basis-change layer, measurement and the
+    per-shot overhead."""
+    from groundkit.device.timing import US_PER_S, circuit_duration, shot_seconds
+
+    circuit = getattr(circuit, "circuit", circuit)
+    return shot_seconds(circuit_duration(circuit, durations), durations, rotated=True) * US_PER_S
 
 
 def gradient_estimates(pipeline: Any) -> int:
@@ -146,19 +141,29 @@ def gradient_estimates(pipeline: Any) -> int:
     return GRADIENT_ESTIMATES_PAULI if pauli else GRADIENT_ESTIMATES_FERMIONIC
 
 
-def noise_figure(pipeline: Any, device: Any, mitigation: Any, target: float) -> list[Any]:
-    """[noise threshold or None, note] from ``groundkit.noise_threshold`` (a later release's piece)."""
+def noise_figure(pipeline: Any, device: Any, mitigation: Any, target: float, theta: Any = None) -> list[Any]:
+    """[noise threshold (the largest two-qubit error rate within ``target``) or None, note] from
+    ``groundkit.noise_threshold`` at the run's parameters ``theta`` (radians)."""
+    from types import SimpleNamespace
+
+    from groundkit.adaptive import Adaptive
+
     from .plan_input import noise_threshold_function
 
     function = noise_threshold_function()
     if function is None:
         return [None, "not available: this groundkit has no noise threshold yet (groundkit.noise_threshold)"]
+    options: dict[str, Any] = {}
+    if theta is not None and not isinstance(pipeline.resolved_components()["trial_state"], Adaptive):
+        options["result"] = SimpleNamespace(parameters=np.asarray(theta, dtype=float), growth=None,
+                                            exact_energy=None)
     try:
-        value = function(on_device(pipeline, device), target=target, mitigation=mitigation)
+        value = function(on_device(pipeline, device), target=target,
+                         mitigation=() if mitigation is None else mitigation, **options)
     except GroundkitError as err:
         return [None, f"{type(err).__name__}: {err}"]
     number = value if isinstance(value, numbers.Real) else next(
-        (getattr(value, name) for name in ("threshold", "factor", "value")
+        (getattr(value, name) for name in ("two_qubit", "threshold", "factor", "value")
          if isinstance(getattr(value, name, None), numbers.Real)), None)
     if number is None:
         return [None, f"not available: noise_threshold returned {type(value).__name__}, not a number"]
