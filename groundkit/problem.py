@@ -28,7 +28,8 @@ class Problem:
     """Active-space Hamiltonian ``H = core_energy + sum h1[p,q] E_pq + 1/2 sum h2[p,q,r,s] (E_pq E_rs - d_qr E_ps)``.
 
     ``h1`` (n, n) and ``h2`` (n, n, n, n, chemists' notation (pq|rs)) are real, in Hartree, over the active
-    canonical orbitals, with the frozen core folded into ``h1`` and ``core_energy`` (nuclear repulsion included).
+    orbitals of the chosen orbital set (canonical by default), with the frozen core folded into ``h1`` and
+    ``core_energy`` (nuclear repulsion included).
     """
 
     def __init__(self, molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> None:
@@ -37,27 +38,49 @@ class Problem:
         self.scf = chemistry.solve_scf(molecule)
         self.active_orbitals: ResolvedActiveSpace = self.active_space.resolve(molecule, self.scf)
         self.core_energy, self.h1, self.h2 = chemistry.active_integrals(
-            self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active)
+            self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active),
+            self.active_orbitals.mo_coeff,
         )
         self._check_hf_energy()
         self.baselines = Baselines(self)
         self._states: list = []
 
     def _check_hf_energy(self) -> None:
-        """Raise :class:`IntegralConsistencyError` unless the HF determinant's energy is the SCF energy (1e-8 Ha).
+        """Raise :class:`IntegralConsistencyError` unless the reference determinant's energy from the active-space
+        integrals equals its energy by a second route (1e-8 Ha).
 
-        A free check of the orbital order, the core folding and the integral transformation (one Slater–Condon
-        sum, microseconds to a millisecond).
+        Canonical orbitals: the second route is the SCF energy itself (the determinant is the SCF solution).
+        Natural or CASSCF orbitals: the determinant filling the lowest chosen orbitals is no longer the SCF
+        solution (its energy lies above the SCF energy); the second route is PySCF's SCF energy functional of
+        that determinant's density in the AO basis (:func:`groundkit.orbitals.solvers.determinant_energy_from_density`),
+        which shares no step with the MO transformation and core folding. A free check of the orbital order,
+        the core folding and the integral transformation (one Slater–Condon sum, and for non-canonical orbitals
+        one Fock build).
         """
-        difference = self.hf_energy - self.scf_energy
+        expected, what = self.reference_determinant_check()
+        difference = self.hf_energy - expected
         if not abs(difference) <= HF_CONSISTENCY_TOL:
             raise IntegralConsistencyError(
-                f"internal error for {self.molecule!r} in {self.active_orbitals}: the Hartree–Fock determinant's "
-                f"energy from the active-space integrals is {self.hf_energy:.10f} Ha but the {self.scf.method} "
-                f"energy is {self.scf_energy:.10f} Ha ({1e3 * difference:+.6f} mHa; tolerance "
+                f"internal error for {self.molecule!r} in {self.active_orbitals}: the reference determinant's "
+                f"energy from the active-space integrals is {self.hf_energy:.10f} Ha but {what} is "
+                f"{expected:.10f} Ha ({1e3 * difference:+.6f} mHa; tolerance "
                 f"{HF_CONSISTENCY_TOL:g} Ha). The orbital order or the integral transformation is wrong; please "
                 "report this with the molecule"
             )
+
+    def reference_determinant_check(self) -> tuple[float, str]:
+        """(energy in Ha, what it is) that the reference determinant's active-space energy must equal: the SCF
+        energy for canonical orbitals, else PySCF's energy of the determinant's density (see _check_hf_energy)."""
+        space = self.active_orbitals
+        if space.mo_coeff is None:
+            return self.scf_energy, f"the {self.scf.method} energy"
+        from .orbitals.solvers import determinant_energy_from_density
+
+        n_core = len(space.core)
+        order = list(space.core) + list(space.active)
+        energy = determinant_energy_from_density(self.scf, space.mo_coeff[:, order], n_core + self.n_beta,
+                                                 self.n_alpha - self.n_beta)
+        return energy, "PySCF's energy of that determinant's density"
 
     # sizes and quantum numbers ------------------------------------------------------------------------------
     @property
@@ -110,7 +133,8 @@ class Problem:
 
     @cached_property
     def hf_energy(self) -> float:
-        """Energy (Ha) of the Hartree–Fock determinant from the active-space Hamiltonian; equals ``scf_energy``."""
+        """Energy (Ha) of the reference determinant (lowest active orbitals filled) from the active-space
+        Hamiltonian; equals ``scf_energy`` for canonical orbitals, lies above it for natural or CASSCF orbitals."""
         return determinant_energy(self.h1, self.h2, self.core_energy, range(self.n_alpha), range(self.n_beta))
 
     @property
