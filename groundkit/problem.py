@@ -18,6 +18,7 @@ from .baselines import Baselines
 from .errors import IntegralConsistencyError, SizeLimitError
 from .molecule import MoleculeSpec
 from .reference import Reference, make_state
+from .space_error import SpaceError, space_error
 
 REFERENCE_DETERMINANT_LIMIT = 20_000_000  # exact reference only up to this many determinants (~160 MB a vector)
 PROBLEM_CACHE_SIZE = 64
@@ -44,6 +45,7 @@ class Problem:
         self._check_hf_energy()
         self.baselines = Baselines(self)
         self._states: list = []
+        self._space_error: list = []
 
     def _check_hf_energy(self) -> None:
         """Raise :class:`IntegralConsistencyError` unless the reference determinant's energy from the active-space
@@ -164,6 +166,19 @@ class Problem:
             self._states = [make_state(e, ci, ss, self.n_orbitals, self.n_alpha, self.n_beta) for e, ci, ss in found]
         return self._states[:k]
 
+    @property
+    def active_space_error(self) -> SpaceError:
+        """What the active space loses: the exact active-space energy against full-space FCI where it is
+        affordable, else full-space CCSD(T) (:mod:`groundkit.space_error`). Computed on first use and kept."""
+        if not self._space_error:
+            self._space_error.append(space_error(self))
+        return self._space_error[0]
+
+    @property
+    def known_active_space_error(self) -> SpaceError | None:
+        """The active-space error if it was already computed, else None (nothing is computed)."""
+        return self._space_error[0] if self._space_error else None
+
     # views ----------------------------------------------------------------------------------------------------
     def fermion_hamiltonian(self):
         """The active-space Hamiltonian as an ``openfermion.InteractionOperator`` over interleaved spin orbitals."""
@@ -174,7 +189,8 @@ class Problem:
         return InteractionOperator(self.core_energy, one, 0.5 * two)
 
     def summary(self) -> str:
-        """Plain-text description: molecule, SCF (attempts, stability), active space, sizes, reference."""
+        """Plain-text description: molecule, SCF (attempts, stability), active space, sizes, reference and the
+        active-space error (computing it: full-space FCI or CCSD(T))."""
         ref = self.reference
         return "\n".join([
             repr(self.molecule),
@@ -182,7 +198,14 @@ class Problem:
             f"active space: {self.active_orbitals}",
             f"qubits (spin orbitals): {self.n_qubits}; determinants (N, Sz): {self.n_determinants:,}",
             f"exact reference: {ref.energy:.10f} Ha, multiplicity {ref.multiplicity}, <S^2> = {ref.spin_square:.6f}",
+            *self._space_error_lines(),
         ])
+
+    def _space_error_lines(self) -> list[str]:
+        try:
+            return [self.active_space_error.line()]
+        except Exception as err:  # a summary never fails on this line
+            return [f"active-space error: not available ({type(err).__name__}: {err})"]
 
     def scf_lines(self) -> list[str]:
         """The SCF part of :meth:`summary`: energy, the solver attempts (a fallback is named) and stability."""

@@ -50,6 +50,7 @@ def compare(
     minimisers: Sequence[Any] | None = None,
     executor: Any = None,
     progress: bool = False,
+    active_space_error: bool = False,
 ) -> Any:
     """Run every combination on the pipeline's molecule and active space; returns a pandas DataFrame.
 
@@ -60,7 +61,10 @@ def compare(
     chemical accuracy, 1.6 mHa, judged at two standard errors; common practice, no single source),
     within_chemical_accuracy (True only when the verdict is 'within'), the resource counts, shot_budget (shots
     for a 1.6 mHa standard error where the estimator samples and the pipeline can tell, else None), converged,
-    iterations, wall_time (s), failure.
+    iterations, wall_time (s), failure. ``active_space_error=True`` adds ``active_space_error_mha`` and
+    ``active_space_against``: what the shared active space loses against the full problem (computed once, here;
+    see :mod:`groundkit.space_error`), so each row shows both the trial state's error inside the space and the
+    space's own.
 
     A combination that groundkit refuses or cannot solve (a GroundkitError) becomes a row whose ``failure`` says
     why; any other exception is a programming error and is raised.
@@ -126,4 +130,9 @@ def compare(
         row["wall_time"] = float(answer["wall_time"])
         row["failure"] = answer["error"]
         rows.append(row)
+    if active_space_error:
+        space = pipeline.problem().active_space_error
+        for row in rows:
+            row["active_space_error_mha"] = space.mha
+            row["active_space_against"] = space.against
     return pd.DataFrame(rows)

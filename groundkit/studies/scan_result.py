@@ -69,7 +69,8 @@ class ScanResult:
         baseline (Ha), suspect (comma-separated baselines that failed a plausibility check at that point),
         verdict ('within', 'outside' or 'uncertain', see ``RunResult.verdict``), converged, iterations,
         parameters, wall_time (s), stderr (Ha, sampled estimators only), start, orbital_match, failure.
-        The stderr column appears when some point has a non-zero standard error."""
+        The stderr column appears when some point has a non-zero standard error; ``active_space_error_mha`` and
+        ``active_space_against`` when some point has its active-space error (:meth:`with_active_space_error`)."""
         import pandas as pd
 
         baseline_names: list[str] = []
@@ -78,6 +79,7 @@ class ScanResult:
                 baseline_names += [k for k in p.result.baselines if k not in baseline_names]
         rows = []
         any_stderr = False
+        any_space = any(p.ok and p.result.active_space_error for p in self.points)
         for p in self.points:
             r = p.result
             row: dict[str, Any] = {"value": p.value}
@@ -85,6 +87,10 @@ class ScanResult:
             row["reference"] = r.reference.energy if r else np.nan
             row["error"] = r.error if r else np.nan
             row["error_mha"] = 1000 * r.error if r else np.nan
+            if any_space:
+                space = r.active_space_error if r else None
+                row["active_space_error_mha"] = space["error_mha"] if space else np.nan
+                row["active_space_against"] = space["against"] if space else ""
             for name in baseline_names:
                 b = r.baselines.get(name) if r else None
                 row[name] = np.nan if b is None else b
@@ -105,6 +111,14 @@ class ScanResult:
         if not any_stderr:
             table = table.drop(columns="stderr")
         return table
+
+    def with_active_space_error(self) -> ScanResult:
+        """This scan with every point's active-space error computed (full-space FCI where affordable, else
+        CCSD(T); see :mod:`groundkit.space_error`), in this process. Returns a new scan; failed points stay."""
+        from dataclasses import replace
+
+        points = tuple(replace(p, result=p.result.with_active_space_error()) if p.ok else p for p in self.points)
+        return replace(self, points=points)
 
     # analysis -------------------------------------------------------------------------------------------------
     def equilibrium(self, column: str = "energy", include_unconverged: bool = False) -> tuple[float, float]:
