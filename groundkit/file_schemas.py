@@ -10,7 +10,8 @@ fields (lengths, index order) live in :mod:`groundkit.file_checks`.
 
 Fields added after version 1 was first written (``growth``, ``suspect_baselines``, ``baseline_notes``,
 ``exact_energy``, ``active_space_error``, ``orbital_optimisation``) are optional, so files of earlier releases
-still load. Records that later releases may extend (top level, provenance, resources, checkpoint envelopes) accept additional keys of plain JSON; loading ignores them.
+still load. Records that later releases may extend (top level, provenance, resources, checkpoint envelopes)
+accept additional keys of plain JSON; loading ignores them.
 """
 
 from __future__ import annotations
