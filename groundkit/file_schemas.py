@@ -257,6 +257,7 @@ DEFS: dict[str, Any] = {
             "handover": _nullable("handover", "a warm-start handover object or null"),
             "earlier_failures": {"type": "array", "items": _ref("text"),
                                  "description": "a list of earlier failure messages (retried points)"},
+            "orbital_jump": {"type": ["string", "null"], "description": "a CASSCF jump report or null"},
         },
         "allOf": [
             {"if": {"properties": {"result": {"type": "null"}}},

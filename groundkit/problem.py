@@ -7,6 +7,7 @@ minimiser) receive the same Problem object from :func:`build_problem`.
 from __future__ import annotations
 
 from collections import OrderedDict
+from dataclasses import replace
 from functools import cached_property
 from math import comb
 
@@ -33,11 +34,17 @@ class Problem:
     ``core_energy`` (nuclear repulsion included).
     """
 
-    def __init__(self, molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> None:
+    def __init__(self, molecule: MoleculeSpec, active_space: ActiveSpace | None = None, *,
+                 orbitals: np.ndarray | None = None) -> None:
+        """``orbitals`` (n_ao, n_mo), in the order of the active space's orbitals, replaces them (the final
+        orbitals of an orbital-optimised run); such a problem is not shared through :func:`build_problem`."""
         self.molecule = molecule
         self.active_space = active_space if active_space is not None else ActiveSpace()
         self.scf = chemistry.solve_scf(molecule)
         self.active_orbitals: ResolvedActiveSpace = self.active_space.resolve(molecule, self.scf)
+        if orbitals is not None:
+            self.active_orbitals = replace(self.active_orbitals, mo_coeff=np.asarray(orbitals, dtype=float),
+                                           orbital_set="optimised", casscf_energy=None)
         self.core_energy, self.h1, self.h2 = chemistry.active_integrals(
             self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active),
             self.active_orbitals.mo_coeff,

@@ -22,9 +22,10 @@ from . import solvers
 
 ORBITAL_SETS = ("canonical", "mp2-natural", "ccsd-natural", "casscf")
 LABELS = {"canonical": "canonical Hartree–Fock orbitals", "mp2-natural": "MP2 natural orbitals",
-          "ccsd-natural": "CCSD natural orbitals", "casscf": "CASSCF orbitals"}
+          "ccsd-natural": "CCSD natural orbitals", "casscf": "CASSCF orbitals",
+          "optimised": "orbitals optimised with the trial state"}
 OCCUPATION_LABELS = {"canonical": "MP2 NO occ", "mp2-natural": "MP2 NO occ", "ccsd-natural": "CCSD NO occ",
-                     "casscf": "CAS NO occ"}
+                     "casscf": "CAS NO occ", "optimised": "NO occ"}
 CCSD_SECONDS_PER_FLOP = 2e-9  # rough: PySCF's CCSD on this 2-core machine, o^2 v^4 operations per iteration
 CCSD_ITERATIONS = 20  # typical iterations of a CCSD that converges
 

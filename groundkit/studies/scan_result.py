@@ -35,6 +35,9 @@ class ScanPoint:
     wall_time: float = 0.0
     handover: dict | None = field(default=None, repr=False)
     earlier_failures: tuple[str, ...] = ()
+    orbital_jump: str | None = None
+    """CASSCF orbitals only: why this point's CASSCF solution is not the continuation of the previous point's
+    (see :mod:`groundkit.orbitals.continuity`); None when it continued or was not checked."""
 
     @property
     def ok(self) -> bool:
@@ -62,6 +65,11 @@ class ScanResult:
     def failures(self) -> dict[float, str]:
         """value -> failure message of every point without a result."""
         return {p.value: str(p.failure) for p in self.points if not p.ok}
+
+    @property
+    def orbital_jumps(self) -> dict[float, str]:
+        """value -> report of every point whose CASSCF solution jumped away from the previous point's."""
+        return {p.value: p.orbital_jump for p in self.points if p.orbital_jump}
 
     @property
     def table(self) -> Any:
@@ -106,6 +114,8 @@ class ScanResult:
             row["start"] = p.start
             row["orbital_match"] = np.nan if p.orbital_match is None else p.orbital_match
             row["failure"] = p.failure
+            if self.orbital_jumps:
+                row["orbital_jump"] = p.orbital_jump or ""
             rows.append(row)
         table = pd.DataFrame(rows)
         if not any_stderr:
