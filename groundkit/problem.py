@@ -44,7 +44,8 @@ class Problem:
         self.active_orbitals: ResolvedActiveSpace = self.active_space.resolve(molecule, self.scf)
         if orbitals is not None:
             self.active_orbitals = replace(self.active_orbitals, mo_coeff=np.asarray(orbitals, dtype=float),
-                                           orbital_set="optimised", casscf_energy=None)
+                                           orbital_set="optimised", casscf_energy=None, natural_occupations=(),
+                                           selection_table=())
         self.core_energy, self.h1, self.h2 = chemistry.active_integrals(
             self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active),
             self.active_orbitals.mo_coeff,
