@@ -42,6 +42,7 @@ from .errors import (
     IntegralConsistencyError,
     MoleculeError,
     MultiplicityError,
+    OrbitalJumpWarning,
     ParameterError,
     ResultFileError,
     ScanInputError,
@@ -81,6 +82,7 @@ from .minimisers import (
 from .molecule import MoleculeSpec
 from .noise.threshold import NoiseThreshold, noise_threshold
 from .objective import Objective
+from .orbitals.optimised import orbital_optimised_run
 from .persistence import load_result
 from .pipeline import Pipeline
 from .problem import Problem, build_problem
@@ -125,12 +127,13 @@ __all__ = [
     "Pipeline", "Problem", "QubitEncoding", "QubitMapping", "QubitObjective", "QubitPool", "QubitTrialState",
     "Reference", "ReferenceRecord", "ResolvedActiveSpace", "Resources", "ResultFileError", "RunResult", "SPSA",
     "SampledEstimator", "ScanInputError", "ScanPoint", "ScanResult", "ScfFallbackWarning", "ScfInstabilityWarning",
-    "ScfWarning", "SinglesDoublesPool", "SizeLimitError",
+    "OrbitalJumpWarning", "ScfWarning", "SinglesDoublesPool", "SizeLimitError",
     "StudyFileError", "SymmetryError", "TrialState", "UCCSD", "UpCCGSD", "XYZFormatError", "adaptive", "as_estimator",
     "as_mapping", "as_minimiser", "as_trial_state", "build_problem", "circuit_from_openqasm", "circuit_resources",
     "compare", "compare_mappings", "compare_measurements", "explore", "grown_sequence", "grown_trial_state",
     "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
     "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits", "noise_threshold",
+    "orbital_optimised_run",
     "DeviceCircuit", "DeviceError", "DeviceProfile", "compare_devices", "compile_for_device",
     "PlanInputError", "PlanLimits", "PlanResult", "Recommendation", "load_plan", "plan",
 ]

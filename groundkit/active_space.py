@@ -1,7 +1,8 @@
 """ActiveSpace: which molecular orbitals and electrons the correlated (qubit) problem keeps.
 
 Orbitals below the active ones are doubly occupied core, folded into a constant and an effective one-electron
-operator; orbitals above are dropped. Orbital indices are 0-based canonical SCF orbitals in energy order.
+operator; orbitals above are dropped. Orbital indices are 0-based, in the order of the chosen orbital set:
+canonical SCF orbitals in energy order (default), natural orbitals by descending occupation.
 """
 
 from __future__ import annotations
@@ -17,6 +18,8 @@ from .constraints import Bool, Integer, Interval, ListOf, OneOf, OrNone, Pair
 from .elements import frozen_core_orbitals
 from .errors import ActiveSpaceError, DegenerateBoundaryWarning
 from .molecule import MoleculeSpec
+from .orbitals.choice import LABELS as ORBITAL_LABELS
+from .orbitals.choice import OCCUPATION_LABELS, ORBITAL_SETS, casscf_orbitals, orbital_basis
 from .registry import register
 
 DEGENERACY_TOL = 1e-4  # Hartree: orbitals closer than this in energy count as one degenerate set
@@ -33,6 +36,12 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
     - ``ActiveSpace(indices=[1, 2, 5])``: these orbitals; occupied ones outside them become core.
     - ``ActiveSpace(frozen_core=True)``: drop the chemical core (1s for Li–Ne, 1s2s2p for Na–Ar, ...).
     - ``ActiveSpace.auto()``: sized by MP2 natural-orbital occupation numbers.
+
+    ``orbital_set`` chooses the orbitals the space is cut from (:mod:`groundkit.orbitals.choice`):
+    ``"canonical"`` (Hartree–Fock, the default), ``"mp2-natural"`` or ``"ccsd-natural"`` (natural orbitals in
+    descending occupation; windows, indices and ``auto`` count in that order) or ``"casscf"`` (PySCF's CASSCF
+    optimises the orbitals of the space chosen in canonical orbitals). Integrals, core energy, reference,
+    baselines and circuits all follow the chosen orbitals.
     """
 
     electrons: int | None = None
@@ -41,6 +50,7 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
     frozen_core: bool = False
     selection: str = "window"
     occupation_window: tuple[float, float] = MP2_OCCUPATION_WINDOW
+    orbital_set: str = "canonical"
 
     constraints = {
         "electrons": OrNone(Integer(0)),
@@ -49,6 +59,7 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
         "frozen_core": Bool(),
         "selection": OneOf("window", "mp2-occupation"),
         "occupation_window": Pair(Interval(float, 0.0, 2.0, closed="neither"), unit="electrons"),
+        "orbital_set": OneOf(*ORBITAL_SETS),
     }
 
     def check_options(self) -> None:
@@ -66,10 +77,14 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
     @classmethod
     def auto(
         cls, *, low: float = MP2_OCCUPATION_WINDOW[0], high: float = MP2_OCCUPATION_WINDOW[1],
-        frozen_core: bool = True,
+        frozen_core: bool = True, orbital_set: str = "canonical",
     ) -> ActiveSpace:
-        """Keep the orbitals whose MP2 natural-orbital occupation lies in [low, high] (electrons)."""
-        return cls(selection="mp2-occupation", occupation_window=(float(low), float(high)), frozen_core=frozen_core)
+        """Keep the orbitals whose natural-orbital occupation lies in [low, high] (electrons): the MP2 natural
+        occupations for canonical and CASSCF orbitals (CASSCF then optimises that space), the occupations of the
+        orbitals themselves for ``orbital_set="mp2-natural"`` or ``"ccsd-natural"``. ``explain()`` shows the
+        ranking."""
+        return cls(selection="mp2-occupation", occupation_window=(float(low), float(high)), frozen_core=frozen_core,
+                   orbital_set=orbital_set)
 
     def resolve(self, molecule: MoleculeSpec, scf: ScfSolution, *, warn: bool = True) -> ResolvedActiveSpace:
         """Core, active and dropped orbital indices and active electron counts for this molecule."""
@@ -82,6 +97,7 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
                 f"for charge {molecule.charge:+d}; use frozen_core=False"
             )
         table: tuple[dict, ...] = ()
+        basis = orbital_basis(self.orbital_set, scf, list(range(n_frozen)))
         if self.indices is not None:
             active = list(self.indices)
             if active[-1] >= n_mo:
@@ -102,13 +118,14 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
             if self.electrons is not None and self.electrons != n_active_electrons:
                 raise ActiveSpaceError(
                     f"electrons={self.electrons} disagrees with the {n_active_electrons} electrons that the "
-                    f"Hartree–Fock orbitals {active} hold"
+                    f"orbitals {active} hold in the reference determinant"
                 )
         else:
             if self.selection == "mp2-occupation":
                 from .chemistry import natural_occupations
 
-                occupations = natural_occupations(scf, list(range(n_frozen)))
+                occupations = basis.occupations if basis.occupations is not None else natural_occupations(
+                    scf, list(range(n_frozen)))
                 low, high = self.occupation_window
                 n_strong = int(np.count_nonzero(occupations >= high))
                 n_weak = int(np.count_nonzero(occupations <= low))
@@ -116,7 +133,7 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
                 n_core = min(max(n_strong, n_frozen), n_docc - (1 if n_socc == 0 and n_docc > n_frozen else 0))
                 n_orb = max(n_mo - n_weak - n_core, n_docc + n_socc - n_core + (1 if n_mo > n_docc + n_socc else 0))
                 electrons, orbitals = molecule.n_electrons - 2 * n_core, n_orb
-                table = _selection_table(scf, occupations, n_core, n_orb)
+                table = _selection_table(scf, basis.energies, occupations, n_core, n_orb)
             elif self.electrons is None:
                 electrons, orbitals = molecule.n_electrons - 2 * n_frozen, n_mo - n_frozen
             else:
@@ -133,15 +150,38 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
                 f"give at least {n_alpha} orbitals"
             )
         external = [i for i in range(n_mo) if i not in active and i not in core]
+        mo_coeff = None if basis.canonical else basis.mo_coeff
+        energies = basis.energies
+        natural = () if basis.occupations is None else tuple(float(x) for x in basis.occupations)
+        cas = None
+        if self.orbital_set == "casscf":
+            from .orbitals.continuity import casscf_start
+
+            spin = 0.5 * (molecule.multiplicity - 1)
+            cas = casscf_orbitals(scf, core, active, n_alpha, n_beta, spin,
+                                  start=casscf_start(molecule, scf, core, active))
+            core, active = list(range(len(core))), list(range(len(core), len(core) + len(active)))
+            external = list(range(len(core) + len(active), n_mo))
+            mo_coeff, energies = cas.mo_coeff, cas.energies
+            natural = tuple([2.0] * len(core) + [float(x) for x in cas.occupations] + [0.0] * len(external))
+            if table:
+                table = tuple({**row, "orbital": i, "energy": float(energies[i]), "occupation": natural[i],
+                               "role": "core" if i in core else "active" if i in active else "dropped"}
+                              for i, row in enumerate(table))
         resolved = ResolvedActiveSpace(
             core=tuple(core),
             active=tuple(active),
             external=tuple(external),
             n_alpha=n_alpha,
             n_beta=n_beta,
-            orbital_energies=tuple(float(e) for e in scf.mo_energy),
+            orbital_energies=tuple(float(e) for e in energies),
             orbital_occupations=tuple(float(o) for o in scf.mo_occ),
             selection_table=table,
+            orbital_set=self.orbital_set,
+            mo_coeff=mo_coeff,
+            natural_occupations=natural,
+            casscf_energy=None if cas is None else cas.energy,
+            orbital_attempts=() if cas is None else cas.attempts,
         )
         if warn:
             for message in resolved.degenerate_cuts():
@@ -150,8 +190,9 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
 
     def __repr__(self) -> str:
         if self.selection == "mp2-occupation":
+            extra = f", orbital_set={self.orbital_set!r}" if self.orbital_set != "canonical" else ""
             return f"ActiveSpace.auto(low={self.occupation_window[0]}, high={self.occupation_window[1]}, " \
-                f"frozen_core={self.frozen_core})"
+                f"frozen_core={self.frozen_core}{extra})"
         parts = []
         if self.indices is not None:
             parts.append(f"indices={list(self.indices)}")
@@ -159,6 +200,8 @@ class ActiveSpace(Component, role="active_space", error=ActiveSpaceError):
             parts.append(f"electrons={self.electrons}, orbitals={self.orbitals}")
         if self.frozen_core:
             parts.append("frozen_core=True")
+        if self.orbital_set != "canonical":
+            parts.append(f"orbital_set={self.orbital_set!r}")
         return f"ActiveSpace({', '.join(parts) or 'full space'})"
 
 
@@ -187,12 +230,15 @@ def _window_core(molecule: MoleculeSpec, scf: ScfSolution, electrons: int, orbit
     return core
 
 
-def _selection_table(scf: ScfSolution, occupations: np.ndarray, n_core: int, n_orb: int) -> tuple[dict, ...]:
+def _selection_table(scf: ScfSolution, energies: np.ndarray, occupations: np.ndarray, n_core: int,
+                     n_orb: int) -> tuple[dict, ...]:
+    """One row per orbital: energy (Fock diagonal, Ha), HF occupation, the natural occupation that ranked it
+    (``occupation``; ``mp2_occupation`` kept for older readers) and its role."""
     rows = []
     for i in range(scf.n_orbitals):
         role = "core" if i < n_core else "active" if i < n_core + n_orb else "dropped"
-        rows.append({"orbital": i, "energy": float(scf.mo_energy[i]), "hf_occupation": float(scf.mo_occ[i]),
-                     "mp2_occupation": float(occupations[i]), "role": role})
+        rows.append({"orbital": i, "energy": float(energies[i]), "hf_occupation": float(scf.mo_occ[i]),
+                     "mp2_occupation": float(occupations[i]), "occupation": float(occupations[i]), "role": role})
     return tuple(rows)
 
 
@@ -208,6 +254,11 @@ class ResolvedActiveSpace:
     orbital_energies: tuple[float, ...] = field(repr=False, default=())
     orbital_occupations: tuple[float, ...] = field(repr=False, default=())
     selection_table: tuple[dict, ...] = field(repr=False, default=())
+    orbital_set: str = "canonical"
+    mo_coeff: np.ndarray | None = field(repr=False, default=None, compare=False)
+    natural_occupations: tuple[float, ...] = field(repr=False, default=())
+    casscf_energy: float | None = field(repr=False, default=None)
+    orbital_attempts: tuple[str, ...] = field(repr=False, default=())
 
     @property
     def n_orbitals(self) -> int:
@@ -238,18 +289,26 @@ class ResolvedActiveSpace:
         return messages
 
     def explain(self) -> str:
-        """Plain-text table of orbital energies, occupations and roles."""
-        lines = [f"{'orbital':>7} {'energy/Ha':>11} {'HF occ':>6} {'MP2 NO occ':>10}  role"]
+        """Plain-text table of orbital energies, occupations and roles, headed by the orbitals' kind; the
+        natural-occupation column is what ``ActiveSpace.auto`` ranked by (the orbitals' own occupations for
+        natural and CASSCF orbitals)."""
+        heading = OCCUPATION_LABELS[self.orbital_set]
+        lines = [f"{ORBITAL_LABELS[self.orbital_set]}" + (
+            f"; CASSCF energy {self.casscf_energy:.8f} Ha" if self.casscf_energy is not None else ""),
+            f"{'orbital':>7} {'energy/Ha':>11} {'HF occ':>6} {heading:>11}  role"]
+        natural = self.natural_occupations or (float("nan"),) * len(self.orbital_energies)
         rows = self.selection_table or tuple(
-            {"orbital": i, "energy": en, "hf_occupation": occ, "mp2_occupation": float("nan"),
+            {"orbital": i, "energy": en, "hf_occupation": occ, "occupation": no,
              "role": "core" if i in self.core else "active" if i in self.active else "dropped"}
-            for i, (en, occ) in enumerate(zip(self.orbital_energies, self.orbital_occupations))
+            for i, (en, occ, no) in enumerate(zip(self.orbital_energies, self.orbital_occupations, natural))
         )
         for r in rows:
-            mp2 = "—" if np.isnan(r["mp2_occupation"]) else f"{r['mp2_occupation']:.4f}"
-            lines.append(f"{r['orbital']:>7} {r['energy']:>11.5f} {r['hf_occupation']:>6.2f} {mp2:>10}  {r['role']}")
+            value = r.get("occupation", r.get("mp2_occupation", float("nan")))
+            mp2 = "—" if np.isnan(value) else f"{value:.4f}"
+            lines.append(f"{r['orbital']:>7} {r['energy']:>11.5f} {r['hf_occupation']:>6.2f} {mp2:>11}  {r['role']}")
         return "\n".join(lines)
 
     def __str__(self) -> str:
-        return (f"({self.n_electrons}e, {self.n_orbitals}o) active: orbitals {list(self.active)}, "
+        kind = "" if self.orbital_set == "canonical" else f" in {ORBITAL_LABELS[self.orbital_set]}"
+        return (f"({self.n_electrons}e, {self.n_orbitals}o) active{kind}: orbitals {list(self.active)}, "
                 f"core {list(self.core)}, {len(self.external)} dropped")

@@ -208,7 +208,9 @@ def solution_objections(problem: Problem, method: str, energy: float) -> list[st
     4. Full-space FCI above the active-space exact reference (the full space contains the active one).
     """
     out: list[str] = []
-    hf = problem.scf.energy
+    # the determinant every one of these spaces contains: the SCF one, or for natural and CASSCF orbitals the
+    # reference determinant of those orbitals (above the SCF energy)
+    hf = problem.scf.energy if problem.active_orbitals.mo_coeff is None else problem.hf_energy
     if method in CORRELATED and energy > hf + NOISE:
         out.append(f"{1000 * (energy - hf):.3f} mHa above HF")
     if method in EXACT_FOR_TWO and exact_for_space(problem):  # a small space: its reference is cheap
@@ -283,8 +285,18 @@ def _correlated(method: str) -> Callable[[Problem], Computed]:
             reasons = solution_objections(p, "ccsd", energy)
             return reasons[0] if reasons else None
 
-        found = chemistry.correlated_baseline(p.scf, method, list(space.core) + list(space.external), check)
+        orbitals = None
+        if space.mo_coeff is not None:
+            from .orbitals.choice import semicanonical
+
+            orbitals = semicanonical(p.scf, space.mo_coeff, list(space.core), list(space.active), space.n_alpha,
+                                     space.n_beta)
+        found = chemistry.correlated_baseline(p.scf, method, list(space.core) + list(space.external), check,
+                                              orbitals)
         note = "CCSD starts tried: " + "; ".join(found.attempts) if len(found.attempts) > 1 else ""
+        if orbitals is not None:
+            note = "; ".join(t for t in (note, f"in the {space.orbital_set} orbitals of the active space "
+                                         "(semicanonical in its occupied and empty blocks)") if t)
         return Computed(found.energy, dict(found.diagnostics), note)
 
     return compute

@@ -334,20 +334,22 @@ def clear_cache() -> None:
 
 
 def active_integrals(
-    scf: ScfSolution, core: list[int], active: list[int]
+    scf: ScfSolution, core: list[int], active: list[int], mo_coeff: np.ndarray | None = None
 ) -> tuple[float, np.ndarray, np.ndarray]:
     """Core energy (Ha, with nuclear repulsion), active h1 (n, n) and h2 (n, n, n, n) in chemists' notation.
 
     The doubly occupied ``core`` orbitals are folded into the constant and into h1 through their Coulomb and
-    exchange field, as in a CASCI calculation.
+    exchange field, as in a CASCI calculation. ``mo_coeff`` (n_ao, n_mo) replaces the SCF orbitals (natural or
+    CASSCF orbitals; ``core`` and ``active`` index its columns).
     """
     from pyscf import ao2mo
     from pyscf import scf as pyscf_scf
 
     mol = scf._mf.mol
     hcore = scf._mf.get_hcore()
-    c_core = scf.mo_coeff[:, core]
-    c_act = scf.mo_coeff[:, active]
+    orbitals = scf.mo_coeff if mo_coeff is None else np.asarray(mo_coeff, dtype=float)
+    c_core = orbitals[:, core]
+    c_act = orbitals[:, active]
     core_energy = scf.nuclear_repulsion
     veff = np.zeros_like(hcore)
     if core:
@@ -710,9 +712,13 @@ CC_STARTS: tuple[tuple[str, dict[str, Any]], ...] = (
 
 
 def correlated_baseline(
-    scf: ScfSolution, method: str, frozen: list[int], check: PlausibilityCheck | None = None
+    scf: ScfSolution, method: str, frozen: list[int], check: PlausibilityCheck | None = None,
+    mo_coeff: np.ndarray | None = None,
 ) -> CorrelatedEnergy:
     """'mp2', 'cisd', 'ccsd' or 'ccsd(t)' (total energy in Ha) with the orbitals in ``frozen`` left out.
+
+    ``mo_coeff`` replaces the SCF orbitals (natural or CASSCF orbitals, semicanonical inside the active blocks);
+    the reference determinant then fills its lowest orbitals.
 
     Open shells use PySCF's unrestricted codes on the ROHF orbitals. CCSD is retried from the starts in
     ``CC_STARTS`` while a start raises, does not converge or gives an energy that ``check`` rejects; when every
@@ -723,13 +729,14 @@ def correlated_baseline(
 
     frozen_arg = sorted(frozen) or None
     mf = scf._mf
+    mo = _solver_orbitals(scf, mo_coeff)
     if method == "mp2":
-        solver = mp.MP2(mf, frozen=frozen_arg)
+        solver = mp.MP2(mf, frozen=frozen_arg, mo_coeff=mo)
         solver.verbose = 0
         solver.kernel()
         return CorrelatedEnergy(float(solver.e_tot))
     if method == "cisd":
-        solver = ci.CISD(mf, frozen=frozen_arg)
+        solver = ci.CISD(mf, frozen=frozen_arg, mo_coeff=mo)
         solver.verbose = 0
         solver.max_cycle = CC_MAX_CYCLE
         solver.kernel()
@@ -737,7 +744,7 @@ def correlated_baseline(
         c0 = float(np.ravel(solver.ci)[0])
         return CorrelatedEnergy(float(solver.e_tot), {"reference_weight": c0 * c0})
     if method in ("ccsd", "ccsd(t)"):
-        solver, attempts = _ccsd_solver(scf, frozen_arg, check)
+        solver, attempts = _ccsd_solver(scf, frozen_arg, check, mo)
         diagnostics = _cc_diagnostics(solver)
         if method == "ccsd":
             return CorrelatedEnergy(float(solver.e_tot), diagnostics, attempts)
@@ -746,20 +753,30 @@ def correlated_baseline(
     raise ValueError(f"unknown baseline method {method!r}")
 
 
+def _solver_orbitals(scf: ScfSolution, mo_coeff: np.ndarray | None) -> Any:
+    """The ``mo_coeff`` argument of PySCF's correlated solvers: None for the SCF orbitals; for open shells (whose
+    solvers are unrestricted) the same orbitals for both spins."""
+    if mo_coeff is None:
+        return None
+    c = np.asarray(mo_coeff, dtype=float)
+    return c if scf.method == "RHF" else np.array([c, c])
+
+
 def _ccsd_solver(scf: ScfSolution, frozen_arg: list[int] | None,
-                 check: PlausibilityCheck | None = None) -> tuple[Any, tuple[str, ...]]:
-    """The accepted CCSD solver for this frozen list and the starts tried (cached on the SCF object)."""
-    key = tuple(frozen_arg or ())
+                 check: PlausibilityCheck | None = None, mo: Any = None) -> tuple[Any, tuple[str, ...]]:
+    """The accepted CCSD solver for this frozen list and orbitals, and the starts tried (cached on the SCF
+    object)."""
+    key = (tuple(frozen_arg or ()), None if mo is None else np.asarray(mo).tobytes())
     store = scf._mf.__dict__.setdefault("_groundkit_ccsd", {})
     if key not in store:
-        store[key] = _search_ccsd(scf, frozen_arg, check)
+        store[key] = _search_ccsd(scf, frozen_arg, check, mo)
     if isinstance(store[key], ConvergenceError):
         raise store[key]
     return store[key]
 
 
 def _search_ccsd(scf: ScfSolution, frozen_arg: list[int] | None,
-                 check: PlausibilityCheck | None) -> tuple[Any, tuple[str, ...]] | ConvergenceError:
+                 check: PlausibilityCheck | None, mo: Any = None) -> tuple[Any, tuple[str, ...]] | ConvergenceError:
     """Try the starts of ``CC_STARTS`` in turn; the accepted (or kept) solver and the attempts, or the error."""
     attempts: list[str] = []
     kept: tuple[Any, int] | None = None  # the first converged but rejected solver, and its attempt
@@ -767,7 +784,7 @@ def _search_ccsd(scf: ScfSolution, frozen_arg: list[int] | None,
         if options.get("start") == "cisd" and scf.method != "RHF":
             continue  # the CISD-to-amplitude conversion in _run_ccsd is the closed-shell one
         try:
-            solver = _run_ccsd(scf, frozen_arg, options)
+            solver = _run_ccsd(scf, frozen_arg, options, mo)
         except Exception as err:  # PySCF fails in many ways on hard cases (e.g. a singular DIIS system)
             attempts.append(f"{label}: {type(err).__name__}: {' '.join(str(err).split())}")
             continue
@@ -786,10 +803,10 @@ def _search_ccsd(scf: ScfSolution, frozen_arg: list[int] | None,
     return kept[0], tuple(attempts)
 
 
-def _run_ccsd(scf: ScfSolution, frozen_arg: list[int] | None, options: dict[str, Any]) -> Any:
+def _run_ccsd(scf: ScfSolution, frozen_arg: list[int] | None, options: dict[str, Any], mo: Any = None) -> Any:
     from pyscf import cc, ci
 
-    solver = cc.CCSD(scf._mf, frozen=frozen_arg)
+    solver = cc.CCSD(scf._mf, frozen=frozen_arg, mo_coeff=mo)
     solver.verbose = 0
     solver.max_cycle = CC_MAX_CYCLE
     solver.conv_tol = 1e-9
@@ -800,7 +817,7 @@ def _run_ccsd(scf: ScfSolution, frozen_arg: list[int] | None, options: dict[str,
     with warnings.catch_warnings(), np.errstate(all="ignore"):
         warnings.simplefilter("ignore", RuntimeWarning)
         if options.get("start") == "cisd":
-            start = ci.CISD(scf._mf, frozen=frozen_arg)
+            start = ci.CISD(scf._mf, frozen=frozen_arg, mo_coeff=mo)
             start.verbose = 0
             start.max_cycle = CC_MAX_CYCLE
             start.kernel()

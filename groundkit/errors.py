@@ -99,6 +99,10 @@ class IntegralConsistencyError(RuntimeError):
     """
 
 
+class OrbitalJumpWarning(UserWarning):
+    """A scan's CASSCF solution at one point is not the continuation of the previous point's."""
+
+
 class ScfWarning(UserWarning):
     """Base of the warnings about an SCF solution that converged but deserves a second look."""
 

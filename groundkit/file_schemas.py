@@ -9,9 +9,10 @@ Infinity, 1e400, or integers beyond 300 digits), no key appears twice in one obj
 fields (lengths, index order) live in :mod:`groundkit.file_checks`.
 
 Fields added after version 1 was first written (``growth``, ``suspect_baselines``, ``baseline_notes``,
-``exact_energy``, the device fields of ``resources``, ``noise``) are optional, so files of earlier releases still
-load. Records that later releases may extend (top level, provenance, resources, checkpoint envelopes) accept
-additional keys of plain JSON; loading ignores them.
+``exact_energy``, the device fields of ``resources``, ``noise``, ``active_space_error``,
+``orbital_optimisation``) are optional, so files of earlier releases still load. Records that later releases may
+extend (top level, provenance, resources, checkpoint envelopes) accept additional keys of plain JSON; loading
+ignores them.
 """
 
 from __future__ import annotations
@@ -207,10 +208,21 @@ DEFS: dict[str, Any] = {
             "provenance": _ref("provenance"),
             "growth": _list_of("growth_step", "a list of growth records"),
             "noise": _ref("noise_record"),
+            "active_space_error": _ref("space_error"),
+            "orbital_optimisation": _ref("plain_object"),
         },
         "additionalProperties": _ref("plain"),
         "description": "a groundkit run result (a JSON object)",
     },
+    "space_error": {
+        "type": "object",
+        "required": ["active_energy", "full_energy", "against", "error_mha"],
+        "properties": {"active_energy": _ref("number"), "full_energy": _ref("number"), "against": _ref("text"),
+                       "note": _ref("text"), "error_mha": _ref("number")},
+        "additionalProperties": _ref("plain"),
+        "description": "an active-space error (active_energy, full_energy in Ha, against, error_mha)",
+    },
+    "plain_object": {"type": "object", "additionalProperties": _ref("plain"), "description": "a JSON object"},
     "molecule": {
         "type": "object",
         "required": ["symbols", "coordinates", "charge", "multiplicity", "basis", "unit", "name"],
@@ -274,6 +286,7 @@ DEFS: dict[str, Any] = {
             "handover": _nullable("handover", "a warm-start handover object or null"),
             "earlier_failures": {"type": "array", "items": _ref("text"),
                                  "description": "a list of earlier failure messages (retried points)"},
+            "orbital_jump": {"type": ["string", "null"], "description": "a CASSCF jump report or null"},
         },
         "allOf": [
             {"if": {"properties": {"result": {"type": "null"}}},

@@ -47,6 +47,8 @@ def result_to_dict(result: RunResult) -> dict[str, Any]:
         "provenance": result.provenance,
         "growth": [dict(step) for step in result.growth],
         **({} if result.noise is None else {"noise": result.noise}),
+        **({"active_space_error": dict(result.active_space_error)} if result.active_space_error else {}),
+        **({"orbital_optimisation": dict(result.orbital_optimisation)} if result.orbital_optimisation else {}),
     }
 
 
@@ -160,7 +162,18 @@ def build_result(data: dict[str, Any]) -> RunResult:
         suspect_baselines=dict(data.get("suspect_baselines", {})),
         noise=data.get("noise"),  # absent before noisy runs recorded their noise, and for other estimators
         baseline_notes=dict(data.get("baseline_notes", {})),
+        # absent before the active-space error and orbital-optimised runs existed
+        active_space_error=_space_error(data.get("active_space_error")),
+        orbital_optimisation=None if data.get("orbital_optimisation") is None else dict(data["orbital_optimisation"]),
     )
+
+
+def _space_error(data: dict[str, Any] | None) -> dict[str, Any] | None:
+    if data is None:
+        return None
+    return {"active_energy": float(data["active_energy"]), "full_energy": float(data["full_energy"]),
+            "against": str(data["against"]), "note": str(data.get("note", "")),
+            "error_mha": float(data["error_mha"])}
 
 
 RESOURCE_FIELDS = ("qubits", "parameters", "pauli_terms", "measurement_groups", "two_qubit_gates", "depth")

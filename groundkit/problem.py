@@ -7,6 +7,7 @@ minimiser) receive the same Problem object from :func:`build_problem`.
 from __future__ import annotations
 
 from collections import OrderedDict
+from dataclasses import replace
 from functools import cached_property
 from math import comb
 
@@ -18,6 +19,7 @@ from .baselines import Baselines
 from .errors import IntegralConsistencyError, SizeLimitError
 from .molecule import MoleculeSpec
 from .reference import Reference, make_state
+from .space_error import SpaceError, space_error
 
 REFERENCE_DETERMINANT_LIMIT = 20_000_000  # exact reference only up to this many determinants (~160 MB a vector)
 PROBLEM_CACHE_SIZE = 64
@@ -28,36 +30,67 @@ class Problem:
     """Active-space Hamiltonian ``H = core_energy + sum h1[p,q] E_pq + 1/2 sum h2[p,q,r,s] (E_pq E_rs - d_qr E_ps)``.
 
     ``h1`` (n, n) and ``h2`` (n, n, n, n, chemists' notation (pq|rs)) are real, in Hartree, over the active
-    canonical orbitals, with the frozen core folded into ``h1`` and ``core_energy`` (nuclear repulsion included).
+    orbitals of the chosen orbital set (canonical by default), with the frozen core folded into ``h1`` and
+    ``core_energy`` (nuclear repulsion included).
     """
 
-    def __init__(self, molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> None:
+    def __init__(self, molecule: MoleculeSpec, active_space: ActiveSpace | None = None, *,
+                 orbitals: np.ndarray | None = None) -> None:
+        """``orbitals`` (n_ao, n_mo), in the order of the active space's orbitals, replaces them (the final
+        orbitals of an orbital-optimised run); such a problem is not shared through :func:`build_problem`."""
         self.molecule = molecule
         self.active_space = active_space if active_space is not None else ActiveSpace()
         self.scf = chemistry.solve_scf(molecule)
         self.active_orbitals: ResolvedActiveSpace = self.active_space.resolve(molecule, self.scf)
+        if orbitals is not None:
+            self.active_orbitals = replace(self.active_orbitals, mo_coeff=np.asarray(orbitals, dtype=float),
+                                           orbital_set="optimised", casscf_energy=None, natural_occupations=(),
+                                           selection_table=())
         self.core_energy, self.h1, self.h2 = chemistry.active_integrals(
-            self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active)
+            self.scf, list(self.active_orbitals.core), list(self.active_orbitals.active),
+            self.active_orbitals.mo_coeff,
         )
         self._check_hf_energy()
         self.baselines = Baselines(self)
         self._states: list = []
+        self._space_error: list = []
 
     def _check_hf_energy(self) -> None:
-        """Raise :class:`IntegralConsistencyError` unless the HF determinant's energy is the SCF energy (1e-8 Ha).
+        """Raise :class:`IntegralConsistencyError` unless the reference determinant's energy from the active-space
+        integrals equals its energy by a second route (1e-8 Ha).
 
-        A free check of the orbital order, the core folding and the integral transformation (one Slater–Condon
-        sum, microseconds to a millisecond).
+        Canonical orbitals: the second route is the SCF energy itself (the determinant is the SCF solution).
+        Natural or CASSCF orbitals: the determinant filling the lowest chosen orbitals is no longer the SCF
+        solution (its energy lies above the SCF energy); the second route is PySCF's SCF energy functional of
+        that determinant's density in the AO basis (:func:`groundkit.orbitals.solvers.determinant_energy_from_density`),
+        which shares no step with the MO transformation and core folding. A free check of the orbital order,
+        the core folding and the integral transformation (one Slater–Condon sum, and for non-canonical orbitals
+        one Fock build).
         """
-        difference = self.hf_energy - self.scf_energy
+        expected, what = self.reference_determinant_check()
+        difference = self.hf_energy - expected
         if not abs(difference) <= HF_CONSISTENCY_TOL:
             raise IntegralConsistencyError(
-                f"internal error for {self.molecule!r} in {self.active_orbitals}: the Hartree–Fock determinant's "
-                f"energy from the active-space integrals is {self.hf_energy:.10f} Ha but the {self.scf.method} "
-                f"energy is {self.scf_energy:.10f} Ha ({1e3 * difference:+.6f} mHa; tolerance "
+                f"internal error for {self.molecule!r} in {self.active_orbitals}: the reference determinant's "
+                f"energy from the active-space integrals is {self.hf_energy:.10f} Ha but {what} is "
+                f"{expected:.10f} Ha ({1e3 * difference:+.6f} mHa; tolerance "
                 f"{HF_CONSISTENCY_TOL:g} Ha). The orbital order or the integral transformation is wrong; please "
                 "report this with the molecule"
             )
+
+    def reference_determinant_check(self) -> tuple[float, str]:
+        """(energy in Ha, what it is) that the reference determinant's active-space energy must equal: the SCF
+        energy for canonical orbitals, else PySCF's energy of the determinant's density (see _check_hf_energy)."""
+        space = self.active_orbitals
+        if space.mo_coeff is None:
+            return self.scf_energy, f"the {self.scf.method} energy"
+        from .orbitals.solvers import determinant_energy_from_density
+
+        n_core = len(space.core)
+        order = list(space.core) + list(space.active)
+        energy = determinant_energy_from_density(self.scf, space.mo_coeff[:, order], n_core + self.n_beta,
+                                                 self.n_alpha - self.n_beta)
+        return energy, "PySCF's energy of that determinant's density"
 
     # sizes and quantum numbers ------------------------------------------------------------------------------
     @property
@@ -110,7 +143,8 @@ class Problem:
 
     @cached_property
     def hf_energy(self) -> float:
-        """Energy (Ha) of the Hartree–Fock determinant from the active-space Hamiltonian; equals ``scf_energy``."""
+        """Energy (Ha) of the reference determinant (lowest active orbitals filled) from the active-space
+        Hamiltonian; equals ``scf_energy`` for canonical orbitals, lies above it for natural or CASSCF orbitals."""
         return determinant_energy(self.h1, self.h2, self.core_energy, range(self.n_alpha), range(self.n_beta))
 
     @property
@@ -140,6 +174,19 @@ class Problem:
             self._states = [make_state(e, ci, ss, self.n_orbitals, self.n_alpha, self.n_beta) for e, ci, ss in found]
         return self._states[:k]
 
+    @property
+    def active_space_error(self) -> SpaceError:
+        """What the active space loses: the exact active-space energy against full-space FCI where it is
+        affordable, else full-space CCSD(T) (:mod:`groundkit.space_error`). Computed on first use and kept."""
+        if not self._space_error:
+            self._space_error.append(space_error(self))
+        return self._space_error[0]
+
+    @property
+    def known_active_space_error(self) -> SpaceError | None:
+        """The active-space error if it was already computed, else None (nothing is computed)."""
+        return self._space_error[0] if self._space_error else None
+
     # views ----------------------------------------------------------------------------------------------------
     def fermion_hamiltonian(self):
         """The active-space Hamiltonian as an ``openfermion.InteractionOperator`` over interleaved spin orbitals."""
@@ -150,7 +197,8 @@ class Problem:
         return InteractionOperator(self.core_energy, one, 0.5 * two)
 
     def summary(self) -> str:
-        """Plain-text description: molecule, SCF (attempts, stability), active space, sizes, reference."""
+        """Plain-text description: molecule, SCF (attempts, stability), active space, sizes, reference and the
+        active-space error (computing it: full-space FCI or CCSD(T))."""
         ref = self.reference
         return "\n".join([
             repr(self.molecule),
@@ -158,7 +206,14 @@ class Problem:
             f"active space: {self.active_orbitals}",
             f"qubits (spin orbitals): {self.n_qubits}; determinants (N, Sz): {self.n_determinants:,}",
             f"exact reference: {ref.energy:.10f} Ha, multiplicity {ref.multiplicity}, <S^2> = {ref.spin_square:.6f}",
+            *self._space_error_lines(),
         ])
+
+    def _space_error_lines(self) -> list[str]:
+        try:
+            return [self.active_space_error.line()]
+        except Exception as err:  # a summary never fails on this line
+            return [f"active-space error: not available ({type(err).__name__}: {err})"]
 
     def scf_lines(self) -> list[str]:
         """The SCF part of :meth:`summary`: energy, the solver attempts (a fallback is named) and stability."""

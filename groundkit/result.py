@@ -136,6 +136,11 @@ class RunResult:
     noise: dict[str, Any] | None = None
     """Noisy runs only: the noise model, simulator, mitigation, kept fraction and any zero-noise fit of the final
     estimate (plain data, see docs/noise.md); None for other estimators."""
+    active_space_error: dict[str, Any] | None = None
+    """What the active space loses (``groundkit.space_error.SpaceError.to_dict``: ``error_mha``, ``against``,
+    energies in Ha), when it was computed: see :meth:`with_active_space_error`; None otherwise."""
+    orbital_optimisation: dict[str, Any] | None = None
+    """Orbital-optimised runs only: macro iterations, the final orbital gradient and the rotation's size."""
 
     def baseline_status(self, name: str) -> str:
         """'missing', 'suspect' or 'ok' for one baseline."""
@@ -191,6 +196,8 @@ class RunResult:
                f"{1000 * self.estimator_bias:+.4f} mHa)"]
               if self.exact_energy is not None and abs(self.exact_energy - self.energy) > 1e-12 else []),
             *([f"{'noise':<28}{noise_text(self.noise)}"] if self.noise is not None else []),
+            *([f"{'active-space error':<28}{self.active_space_error['error_mha']:>18.4f} mHa  (exact active space "
+               f"vs {self.active_space_error['against']})"] if self.active_space_error else []),
             f"{'fidelity with exact state':<28}{self.fidelity:>18.6f}",
             f"{'<S^2> / <N>':<28}{self.spin_square:>18.6f} / {self.particle_number:.6f}",
             "",
@@ -210,6 +217,16 @@ class RunResult:
         lines.append(f"minimisation   {self.iterations} iterations, {self.history.total_time:.2f} s, "
                      f"{'converged' if self.converged else 'NOT converged'}: {self.stop_reason}")
         return "\n".join(lines)
+
+    def with_active_space_error(self) -> RunResult:
+        """This result with :attr:`active_space_error` filled: rebuilds the pipeline's problem (cached when it is
+        still in memory) and computes the active-space error (full-space FCI or CCSD(T), see
+        :mod:`groundkit.space_error`). Returns a new result; this one is unchanged."""
+        from dataclasses import replace
+
+        if self.active_space_error is not None:
+            return self
+        return replace(self, active_space_error=self.pipeline().problem().active_space_error.to_dict())
 
     def to_dict(self) -> dict[str, Any]:
         """JSON-ready dict (see :mod:`groundkit.persistence` for the schema)."""

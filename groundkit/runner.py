@@ -125,4 +125,6 @@ def build_result(
         particle_number=float(objective.particle_number(theta)),
         resources=resources_for(pipeline, objective, theta),
         provenance=provenance(pipeline.configuration(), {**components, "device": pipeline.device_profile}),
+        active_space_error=None if problem.known_active_space_error is None  # only when already computed
+        else problem.known_active_space_error.to_dict(),
     )

@@ -51,7 +51,7 @@ def test_auto_selection_follows_mp2_natural_occupations():
     assert r.n_orbitals == inside
     active_rows = [row for row in r.selection_table if row["role"] == "active"]
     assert all(0.02 < row["mp2_occupation"] < 1.98 for row in active_rows)
-    assert len(r.explain().splitlines()) == 1 + len(r.selection_table)
+    assert len(r.explain().splitlines()) == 2 + len(r.selection_table)  # kind line, header, rows
     assert sum(row["role"] == "active" for row in r.selection_table) == r.n_orbitals
 
 

@@ -23,6 +23,7 @@ CIRCUIT = cirq.Circuit([cirq.X(cirq.LineQubit(0)), cirq.ry(theta).on(cirq.LineQu
 EXAMPLES = [
     gk.ActiveSpace(), gk.ActiveSpace(electrons=2, orbitals=3), gk.ActiveSpace(indices=[5, 1, 2]),
     gk.ActiveSpace.auto(low=0.01, high=1.99), gk.ActiveSpace(frozen_core=True),
+    gk.ActiveSpace(electrons=2, orbitals=3, orbital_set="casscf"), gk.ActiveSpace.auto(orbital_set="mp2-natural"),
     gk.QubitMapping(), gk.QubitMapping("bravyi-kitaev"), gk.QubitMapping("parity", taper=True),
     gk.UCCSD(), gk.UCCSD(spin_adapted=True, init="mp2"), gk.PairDoubles(), gk.UpCCGSD(k=3),
     gk.ReferenceDeterminant(), gk.ExcitationList([((2, 3), (1, 0)), ((2,), (0,))]),

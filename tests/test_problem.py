@@ -23,8 +23,8 @@ def _pyscf_rhf(r: float):
 def test_inconsistent_integrals_raise_naming_both_energies(monkeypatch):
     original = chemistry.active_integrals
 
-    def shifted(scf_solution, core, active):
-        core_energy, h1, h2 = original(scf_solution, core, active)
+    def shifted(scf_solution, core, active, *orbitals):
+        core_energy, h1, h2 = original(scf_solution, core, active, *orbitals)
         return core_energy + 1e-6, h1, h2  # a fault of one µHa in the core energy
 
     monkeypatch.setattr(chemistry, "active_integrals", shifted)
@@ -35,6 +35,9 @@ def test_inconsistent_integrals_raise_naming_both_energies(monkeypatch):
     e_scf = chemistry.solve_scf(spec).energy
     assert f"{e_scf:.10f}" in message and f"{e_scf + 1e-6:.10f}" in message and "internal error" in message
     assert not issubclass(gk.IntegralConsistencyError, gk.GroundkitError)  # an internal fault surfaces in studies
+    # in natural orbitals the check compares with PySCF's energy of the determinant's density instead
+    with pytest.raises(gk.IntegralConsistencyError, match="energy of that determinant's density"):
+        gk.Problem(spec, gk.ActiveSpace(electrons=2, orbitals=2, orbital_set="ccsd-natural"))
 
 
 def test_consistent_integrals_pass_the_check(h2o):

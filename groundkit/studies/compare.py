@@ -51,6 +51,7 @@ def compare(
     executor: Any = None,
     progress: bool = False,
     noise_threshold: dict[str, Any] | bool | None = None,
+    active_space_error: bool = False,
 ) -> Any:
     """Run every combination on the pipeline's molecule and active space; returns a pandas DataFrame.
 
@@ -61,7 +62,10 @@ def compare(
     chemical accuracy, 1.6 mHa, judged at two standard errors; common practice, no single source),
     within_chemical_accuracy (True only when the verdict is 'within'), the resource counts, shot_budget (shots
     for a 1.6 mHa standard error where the estimator samples and the pipeline can tell, else None), converged,
-    iterations, wall_time (s), failure.
+    iterations, wall_time (s), failure. ``active_space_error=True`` adds ``active_space_error_mha`` and
+    ``active_space_against``: what the shared active space loses against the full problem (computed once, here;
+    see :mod:`groundkit.space_error`), so each row shows both the trial state's error inside the space and the
+    space's own.
 
     ``noise_threshold=True`` (or a dict of :func:`groundkit.noise_threshold` options, e.g. ``{"mitigation":
     ["zne"], "errors": ErrorFigures(...)}``) adds, for each finished row, the noise threshold at the row's final
@@ -134,6 +138,11 @@ def compare(
         if noise_threshold:
             row.update(_threshold_columns(_variant(pipeline, combination), result, noise_threshold))
         rows.append(row)
+    if active_space_error:
+        space = pipeline.problem().active_space_error
+        for row in rows:
+            row["active_space_error_mha"] = space.mha
+            row["active_space_against"] = space.against
     return pd.DataFrame(rows)
 
 

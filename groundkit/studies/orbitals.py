@@ -154,8 +154,10 @@ def transfer_parameters(
 
 
 def active_orbitals(problem: Any) -> np.ndarray:
-    """Active MO coefficients (n_ao, n_active) of a problem."""
-    return np.array(problem.scf.mo_coeff[:, list(problem.active_orbitals.active)], dtype=float)
+    """Active MO coefficients (n_ao, n_active) of a problem, in its chosen orbitals (canonical, natural, CASSCF)."""
+    space = problem.active_orbitals
+    orbitals = problem.scf.mo_coeff if space.mo_coeff is None else space.mo_coeff
+    return np.array(orbitals[:, list(space.active)], dtype=float)
 
 
 def orbital_handover(problem: Any, plan: Any, parameters: np.ndarray) -> dict[str, Any]:
@@ -167,7 +169,11 @@ def orbital_handover(problem: Any, plan: Any, parameters: np.ndarray) -> dict[st
         scale=tuple(float(f) for f in plan.scale),
         parameters=np.array(parameters, dtype=float),
     )
-    return {"kind": "orbital-matching", **handover.to_dict()}
+    data = {"kind": "orbital-matching", **handover.to_dict()}
+    space = problem.active_orbitals
+    if space.orbital_set == "casscf" and space.mo_coeff is not None:  # the next point's CASSCF starts from these
+        data["casscf_orbitals"] = np.asarray(space.mo_coeff, dtype=float).tolist()
+    return data
 
 
 def previous_match(problem: Any, previous: Any, data: dict[str, Any]) -> tuple[Handover, OrbitalMatch] | str:

@@ -13,10 +13,12 @@ from __future__ import annotations
 
 import math
 import numbers
+import warnings
 from collections.abc import Callable, Iterable
 from contextlib import ExitStack
 from typing import Any
 
+from groundkit.errors import OrbitalJumpWarning
 from groundkit.molecule import MoleculeSpec
 from groundkit.persistence import result_from_dict
 from groundkit.sizing import check_study
@@ -139,6 +141,8 @@ def run_scan(
 
         def on_answer(index: int, answer: dict) -> None:
             point = _point(index, numbers_[index], built[index][0], answer, earlier.get(index, ()))
+            if point.orbital_jump:
+                warnings.warn(f"scan point {point.value:g}: {point.orbital_jump}", OrbitalJumpWarning, stacklevel=3)
             if store is not None:
                 store.write(point)
             points[index] = point
@@ -188,7 +192,7 @@ def _point(index: int, value: float, molecule: MoleculeSpec | None, answer: dict
         result=None if result is None else result_from_dict(result, source=f"scan point {index}"),
         failure=answer.get("error"), start=answer.get("start", "cold"), orbital_match=answer.get("orbital_match"),
         wall_time=float(answer.get("wall_time", 0.0)), handover=answer.get("handover"),
-        earlier_failures=tuple(earlier_failures),
+        earlier_failures=tuple(earlier_failures), orbital_jump=answer.get("orbital_jump"),
     )
 
 

@@ -67,6 +67,7 @@ def point_to_dict(point: ScanPoint) -> dict[str, Any]:
         "wall_time": float(point.wall_time),
         "handover": point.handover,
         "earlier_failures": list(point.earlier_failures),
+        **({"orbital_jump": point.orbital_jump} if point.orbital_jump else {}),
     }
 
 
@@ -94,6 +95,7 @@ def build_point(data: dict[str, Any], source: str, at: Path) -> ScanPoint:
         wall_time=float(data["wall_time"]),
         handover=data["handover"],
         earlier_failures=tuple(data.get("earlier_failures", ())),  # absent before retries were recorded
+        orbital_jump=data.get("orbital_jump"),  # absent before CASSCF scans were checked for jumps
     )
 
 

@@ -35,6 +35,9 @@ class ScanPoint:
     wall_time: float = 0.0
     handover: dict | None = field(default=None, repr=False)
     earlier_failures: tuple[str, ...] = ()
+    orbital_jump: str | None = None
+    """CASSCF orbitals only: why this point's CASSCF solution is not the continuation of the previous point's
+    (see :mod:`groundkit.orbitals.continuity`); None when it continued or was not checked."""
 
     @property
     def ok(self) -> bool:
@@ -64,12 +67,18 @@ class ScanResult:
         return {p.value: str(p.failure) for p in self.points if not p.ok}
 
     @property
+    def orbital_jumps(self) -> dict[float, str]:
+        """value -> report of every point whose CASSCF solution jumped away from the previous point's."""
+        return {p.value: p.orbital_jump for p in self.points if p.orbital_jump}
+
+    @property
     def table(self) -> Any:
         """pandas DataFrame, one row per point: value, energy, reference, error (Ha), error_mha, one column per
         baseline (Ha), suspect (comma-separated baselines that failed a plausibility check at that point),
         verdict ('within', 'outside' or 'uncertain', see ``RunResult.verdict``), converged, iterations,
         parameters, wall_time (s), stderr (Ha, sampled estimators only), start, orbital_match, failure.
-        The stderr column appears when some point has a non-zero standard error."""
+        The stderr column appears when some point has a non-zero standard error; ``active_space_error_mha`` and
+        ``active_space_against`` when some point has its active-space error (:meth:`with_active_space_error`)."""
         import pandas as pd
 
         baseline_names: list[str] = []
@@ -78,6 +87,7 @@ class ScanResult:
                 baseline_names += [k for k in p.result.baselines if k not in baseline_names]
         rows = []
         any_stderr = False
+        any_space = any(p.ok and p.result.active_space_error for p in self.points)
         for p in self.points:
             r = p.result
             row: dict[str, Any] = {"value": p.value}
@@ -85,6 +95,10 @@ class ScanResult:
             row["reference"] = r.reference.energy if r else np.nan
             row["error"] = r.error if r else np.nan
             row["error_mha"] = 1000 * r.error if r else np.nan
+            if any_space:
+                space = r.active_space_error if r else None
+                row["active_space_error_mha"] = space["error_mha"] if space else np.nan
+                row["active_space_against"] = space["against"] if space else ""
             for name in baseline_names:
                 b = r.baselines.get(name) if r else None
                 row[name] = np.nan if b is None else b
@@ -100,11 +114,21 @@ class ScanResult:
             row["start"] = p.start
             row["orbital_match"] = np.nan if p.orbital_match is None else p.orbital_match
             row["failure"] = p.failure
+            if self.orbital_jumps:
+                row["orbital_jump"] = p.orbital_jump or ""
             rows.append(row)
         table = pd.DataFrame(rows)
         if not any_stderr:
             table = table.drop(columns="stderr")
         return table
+
+    def with_active_space_error(self) -> ScanResult:
+        """This scan with every point's active-space error computed (full-space FCI where affordable, else
+        CCSD(T); see :mod:`groundkit.space_error`), in this process. Returns a new scan; failed points stay."""
+        from dataclasses import replace
+
+        points = tuple(replace(p, result=p.result.with_active_space_error()) if p.ok else p for p in self.points)
+        return replace(self, points=points)
 
     # analysis -------------------------------------------------------------------------------------------------
     def equilibrium(self, column: str = "energy", include_unconverged: bool = False) -> tuple[float, float]:

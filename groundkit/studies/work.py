@@ -25,6 +25,7 @@ import numpy as np
 from groundkit.energy_surface import WarmStart, handover_kind
 from groundkit.errors import GroundkitError
 from groundkit.molecule import MoleculeSpec
+from groundkit.orbitals.continuity import active_overlap, casscf_guide, jump_message
 
 from .orbitals import Handover, OrbitalMatch, previous_match, warm_note
 
@@ -67,7 +68,23 @@ def components_of(pipeline: Pipeline) -> dict[str, Any]:
 
 
 def _run_fixed(pipeline: Pipeline, task: Task, answer: dict) -> RunResult:
-    """A fixed trial state: its objective warm-starts from the previous point's handover and hands over its own."""
+    """A fixed trial state: its objective warm-starts from the previous point's handover and hands over its own.
+    CASSCF orbitals start from the previous point's, and a jump to another solution is reported."""
+    data = task.previous[1] if task.previous is not None else None
+    if data is None or data.get("casscf_orbitals") is None:
+        return _run_fixed_in(pipeline, task, answer)
+    previous, orbitals = task.previous[0], np.asarray(data["casscf_orbitals"], dtype=float)
+    with casscf_guide(previous, orbitals):
+        result = _run_fixed_in(pipeline, task, answer)
+    space = pipeline.problem().active_orbitals
+    if space.mo_coeff is not None and space.mo_coeff.shape == orbitals.shape:
+        overlap = active_overlap(previous, orbitals, task.molecule, space.mo_coeff, len(space.core),
+                                 len(space.active))
+        answer["orbital_jump"] = jump_message(overlap)
+    return result
+
+
+def _run_fixed_in(pipeline: Pipeline, task: Task, answer: dict) -> RunResult:
     objective = pipeline.objective()
     start = WarmStart.cold() if task.previous is None else objective.warm_start(*task.previous)
     answer["start"], answer["orbital_match"] = start.note, start.orbital_match
