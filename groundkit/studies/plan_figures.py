@@ -171,11 +171,11 @@ def noise_figure(pipeline: Any, device: Any, mitigation: Any, target: float, the
 
 
 def active_space_error(pipeline: Any) -> float | None:
-    """The problem's active-space error (Ha) where the problem offers one (a later release's piece), else None."""
+    """What the active space loses (Ha): the exact active-space energy against full-space FCI where affordable,
+    else CCSD(T) (``Problem.active_space_error``, computed once per problem); None when it cannot be computed."""
     try:
-        value = getattr(pipeline.problem(), "active_space_error", None)
-        if callable(value):
-            value = value()
+        value = pipeline.problem().active_space_error
     except GroundkitError:
         return None
+    value = getattr(value, "error", value)
     return float(value) if isinstance(value, numbers.Real) and np.isfinite(value) else None
