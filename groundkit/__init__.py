@@ -49,6 +49,7 @@ from .errors import (
     SizeLimitError,
     StudyFileError,
     SymmetryError,
+    WorkspaceBudgetError,
     XYZFormatError,
 )
 from .estimators import (
@@ -90,6 +91,7 @@ from .sizing import CostEstimate, Limits, cost_estimate, limits
 from .studies import BondStretch, GeometryOptimum, ScanPoint, ScanResult, compare, load_scan
 from .trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, TrialState, UpCCGSD
 from .widgets import explore
+from .workspace import Workspace, workspace
 
 __version__ = "0.1.0"
 
@@ -114,4 +116,5 @@ __all__ = [
     "compare", "compare_mappings", "compare_measurements", "explore", "grown_sequence", "grown_trial_state",
     "growth_steps", "growth_table", "load_result", "load_scan", "minimiser_from_name", "openqasm_text", "shot_budget",
     "studies", "trial_circuit", "CostEstimate", "Limits", "cost_estimate", "limits",
+    "Workspace", "WorkspaceBudgetError", "workspace",
 ]

@@ -7,7 +7,6 @@ differ in the trial state still share the chemistry.
 
 from __future__ import annotations
 
-from collections import OrderedDict
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from typing import Any
@@ -20,9 +19,8 @@ from .errors import ComponentError
 from .estimators import Estimator, ExactEstimator
 from .mapping import QubitMapping
 from .molecule import MoleculeSpec
-from .problem import Problem, build_problem, cached_problem
-
-OBJECTIVE_CACHE_SIZE = 32
+from .problem import Problem, build_problem, cached_problem, problem_key
+from .workspace import workspace
 
 
 @dataclass(frozen=True)
@@ -127,17 +125,9 @@ class Pipeline:
 
             return Objective(problem, trial_state, plan=sector_plan(trial_state, self.encoding()))
 
-        key = (id(problem), trial_state, tapered)
-        try:
-            cached = _OBJECTIVES.get(key)
-        except TypeError:  # an unhashable user trial state: build afresh
-            return build()
-        if cached is None or cached.problem is not problem:
-            cached = build()
-            _OBJECTIVES[key] = cached
-            while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
-                _OBJECTIVES.popitem(last=False)
-        return cached
+        key = (problem_key(problem), trial_state, tapered)
+        return workspace().fetch("objective", key, build, parents=lambda objective: (objective.problem,),
+                                 valid=lambda objective: objective.problem is problem)
 
     def check_size(self, stages: tuple[str, ...] = sizing.STAGES, what: str = "this pipeline") -> Any:
         """Raise :class:`~groundkit.errors.SizeLimitError` at once, before any SCF, when a stage's predicted memory
@@ -160,17 +150,10 @@ class Pipeline:
         from .qubit_states import QubitObjective
 
         encoding = self.encoding()
-        key = ("qubit", id(encoding), trial_state)
-        try:
-            cached = _OBJECTIVES.get(key)
-        except TypeError:  # an unhashable user trial state: build afresh
-            return QubitObjective(encoding, trial_state)
-        if cached is None or cached.encoding is not encoding:
-            cached = QubitObjective(encoding, trial_state)
-            _OBJECTIVES[key] = cached
-            while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
-                _OBJECTIVES.popitem(last=False)
-        return cached
+        key = (problem_key(encoding.problem), encoding.mapping, trial_state)
+        return workspace().fetch("qubit objective", key, lambda: QubitObjective(encoding, trial_state),
+                                 parents=lambda objective: (objective.encoding,),
+                                 valid=lambda objective: objective.encoding is encoding)
 
     def circuit(self, theta: Any = None) -> Any:
         """A ``cirq.Circuit`` from |0…0⟩ on ``cirq.LineQubit.range(n)`` preparing the trial state at ``theta``
@@ -267,9 +250,6 @@ class Pipeline:
             note = "" if chosen[role] is not None else "  # default"
             lines.append(f"  .{role}({resolved[role]!r}){note}")
         return "\n".join(lines)
-
-
-_OBJECTIVES: OrderedDict[tuple, Any] = OrderedDict()
 
 
 def _is_qubit_trial_state(trial_state: Any) -> bool:

@@ -8,7 +8,6 @@ images of the number operators, n_i -> (1 - Z_F(i)) / 2.
 
 from __future__ import annotations
 
-from functools import lru_cache
 from typing import Any
 
 import numpy as np
@@ -16,6 +15,7 @@ from openfermion import FermionOperator, QubitOperator
 
 from ..errors import ComponentError
 from ..mapping import QubitMapping
+from ..workspace import workspace
 from .gf2 import inverse
 
 
@@ -33,14 +33,10 @@ def basis_matrix(mapping: QubitMapping | str, n_modes: int) -> np.ndarray:
     """0/1 matrix M (n_modes x n_modes) with qubit bits b = M n mod 2 for occupations n, checked (cached)."""
     value = _as_mapping(mapping).untapered()
     try:
-        return _cached_matrix(value, int(n_modes))
+        hash(value)
     except TypeError:  # a user mapping with unhashable options: compute afresh
         return _checked_matrix(value, int(n_modes))
-
-
-@lru_cache(maxsize=64)
-def _cached_matrix(mapping: QubitMapping, n_modes: int) -> np.ndarray:
-    return _checked_matrix(mapping, n_modes)
+    return workspace().fetch("basis matrix", (value, int(n_modes)), lambda: _checked_matrix(value, int(n_modes)))
 
 
 def _checked_matrix(mapping: QubitMapping, n_modes: int) -> np.ndarray:
