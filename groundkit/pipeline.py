@@ -127,7 +127,7 @@ class Pipeline:
 
         key = (problem_key(problem), trial_state, tapered)
         return workspace().fetch("objective", key, build, parents=lambda objective: (objective.problem,),
-                                 valid=lambda objective: objective.problem is problem)
+                                 valid=lambda objective: objective.problem is problem, grows=True)
 
     def check_size(self, stages: tuple[str, ...] = sizing.STAGES, what: str = "this pipeline") -> Any:
         """Raise :class:`~groundkit.errors.SizeLimitError` at once, before any SCF, when a stage's predicted memory
@@ -153,7 +153,7 @@ class Pipeline:
         key = (problem_key(encoding.problem), encoding.mapping, trial_state)
         return workspace().fetch("qubit objective", key, lambda: QubitObjective(encoding, trial_state),
                                  parents=lambda objective: (objective.encoding,),
-                                 valid=lambda objective: objective.encoding is encoding)
+                                 valid=lambda objective: objective.encoding is encoding, grows=True)
 
     def circuit(self, theta: Any = None) -> Any:
         """A ``cirq.Circuit`` from |0…0⟩ on ``cirq.LineQubit.range(n)`` preparing the trial state at ``theta``

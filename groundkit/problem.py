@@ -209,7 +209,8 @@ def build_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = Non
         sizing.check_problem(molecule, key[1])  # SCF and integral memory and time, before any PySCF call
         return Problem(molecule, key[1])
 
-    return workspace().fetch("problem", key, build, parents=lambda problem: (problem.scf,))
+    return workspace().fetch("problem", key, build, parents=lambda problem: (problem.scf,),
+                             grows=True)
 
 
 def cached_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> Problem | None:

@@ -8,8 +8,8 @@ Entry sizes are measured, not guessed from counts: NumPy arrays by ``nbytes``, S
 their arrays, other objects by walking their attributes and containers (``sys.getsizeof`` for the small parts).
 An entry that refers to another entry (a problem holds its SCF solution, an objective its problem) is measured
 without it and names it as a parent: fetching the child marks its parents used, and evicting a parent evicts
-its children (else the parent would stay alive unseen). Sizes are measured when an entry is stored and again each
-time it is fetched (a problem grows when its exact reference is computed).
+its children (else the parent would stay alive unseen). Sizes are measured when an entry is stored, and entries
+that keep computed parts of themselves (problems, objectives) again each time they are fetched.
 
 ``gk.workspace()`` is the one process-wide workspace; ``gk.workspace(budget_bytes=2e9)`` sets its budget,
 ``.clear()`` forgets everything, ``.report()`` (also its ``repr``) lists kinds, entries and bytes. Thread-safe:
@@ -35,7 +35,7 @@ from .errors import WorkspaceBudgetError
 
 DEFAULT_FRACTION = 0.5  # default budget: this fraction of the memory available when the workspace is created
 FALLBACK_BUDGET = 4 * 2**30  # bytes, when the available memory cannot be read
-MEASURE_OBJECT_LIMIT = 200_000  # objects visited at most when measuring one entry (beyond: the rest is not counted)
+SAMPLED_ITEMS = 64  # a larger container is measured from this many evenly spaced items
 
 _SKIP = (type, types.ModuleType, types.FunctionType, types.BuiltinFunctionType, types.MethodType,
          weakref.ReferenceType, threading.Thread, type(threading.Lock()), type(threading.RLock()))
@@ -65,12 +65,13 @@ def default_budget() -> int:
 def measure(value: Any, stop: frozenset[int] | set[int] = frozenset()) -> int:
     """Bytes held by ``value``: arrays by ``nbytes``, objects through their attributes, containers through their
     items; objects whose ``id`` is in ``stop`` (other workspace entries) and modules, classes, functions are not
-    counted. Each object is counted once; at most :data:`MEASURE_OBJECT_LIMIT` objects are visited."""
+    counted. Each object is counted once. A container of more than :data:`SAMPLED_ITEMS` items is estimated from
+    that many evenly spaced items, so measuring costs at most a few milliseconds."""
     seen: set[int] = set()
-    total = 0
-    pending = [value]
-    while pending and len(seen) < MEASURE_OBJECT_LIMIT:
-        obj = pending.pop()
+    total = 0.0
+    pending: list[tuple[Any, float]] = [(value, 1.0)]
+    while pending:
+        obj, weight = pending.pop()
         if id(obj) in seen or (id(obj) in stop and obj is not value) or isinstance(obj, _SKIP):
             continue
         seen.add(id(obj))
@@ -79,35 +80,43 @@ def measure(value: Any, stop: frozenset[int] | set[int] = frozenset()) -> int:
             while isinstance(base.base, np.ndarray):
                 base = base.base
             if base is not obj:
-                pending.append(base)
+                pending.append((base, weight))
             else:
-                total += obj.nbytes
-            continue
-        if isinstance(obj, (str, bytes, bytearray, int, float, complex, bool, type(None))):
-            total += sys.getsizeof(obj)
+                total += weight * obj.nbytes
             continue
         try:
-            total += sys.getsizeof(obj)
+            total += weight * sys.getsizeof(obj)
         except TypeError:
             pass
+        if isinstance(obj, (str, bytes, bytearray, int, float, complex, bool, type(None))):
+            continue
         if isinstance(obj, dict):
-            pending.extend(obj.keys())
-            pending.extend(obj.values())
-        elif isinstance(obj, (list, tuple, set, frozenset)):
-            pending.extend(obj)
+            items: Any = list(obj.items())
+        elif isinstance(obj, (list, tuple)):
+            items = obj
+        elif isinstance(obj, (set, frozenset)):
+            items = list(obj)
         elif isinstance(obj, memoryview):
-            total += obj.nbytes
+            total += weight * obj.nbytes
+            continue
         else:
+            items = []
             attributes = getattr(obj, "__dict__", None)
             if isinstance(attributes, dict):
-                pending.append(attributes)
+                items.append(attributes)
             for cls in type(obj).__mro__:
                 for slot in getattr(cls, "__slots__", ()):
                     if isinstance(slot, str) and slot not in ("__dict__", "__weakref__"):
                         found = getattr(obj, slot, None)
                         if found is not None:
-                            pending.append(found)
-    return total
+                            items.append(found)
+        n = len(items)
+        if n > SAMPLED_ITEMS:  # evenly spaced sample, each standing for n / SAMPLED_ITEMS items
+            step = n / SAMPLED_ITEMS
+            pending.extend((items[int(k * step)], weight * step) for k in range(SAMPLED_ITEMS))
+        else:
+            pending.extend((item, weight) for item in items)
+    return int(total)
 
 
 @dataclass
@@ -117,6 +126,7 @@ class _Entry:
     value: Any
     nbytes: int
     parents: tuple[tuple[str, Hashable], ...]
+    grows: bool = False
 
 
 @dataclass(frozen=True)
@@ -184,18 +194,21 @@ class Workspace:
             if entry is None:
                 return default
             self._touch(full)
-            self._remeasure(entry)
+            if entry.grows:
+                self._remeasure(entry)
             value = entry.value
             self._evict()
             return value
 
     def put(self, kind: str, key: Hashable, value: Any, *, parents: tuple[Any, ...] = (),
-            owner: Any = None) -> Any:
+            owner: Any = None, grows: bool = False) -> Any:
         """Keep ``value`` under ``(kind, key)`` and return it.
 
         ``parents``: values held by ``value`` that are workspace entries themselves (their entries are marked used
         with this one, and evicting one evicts this entry). ``owner``: an object whose lifetime bounds the entry
-        (dropped when the owner is garbage-collected; the owner is also a parent if it is an entry).
+        (dropped when the owner is garbage-collected; the owner is also a parent if it is an entry). ``grows``:
+        the value keeps computed parts of itself as it is used (a problem's exact reference), so it is measured
+        again each time it is fetched.
         """
         full = (kind, key)
         try:
@@ -207,7 +220,7 @@ class Workspace:
                 self._drop(full)
             linked = [self._by_value[id(p)] for p in (*parents, owner) if p is not None and id(p) in self._by_value]
             stop = set(self._by_value)
-            entry = _Entry(kind, key, value, measure(value, stop), tuple(dict.fromkeys(linked)))
+            entry = _Entry(kind, key, value, measure(value, stop), tuple(dict.fromkeys(linked)), grows)
             if entry.nbytes > self._budget:
                 self.not_kept += 1
                 return value
@@ -223,7 +236,7 @@ class Workspace:
         return value
 
     def fetch(self, kind: str, key: Hashable, build: Callable[[], Any], *, parents: Callable[[Any], tuple] | None
-              = None, owner: Any = None, valid: Callable[[Any], bool] | None = None) -> Any:
+              = None, owner: Any = None, valid: Callable[[Any], bool] | None = None, grows: bool = False) -> Any:
         """The kept value of ``(kind, key)``, or ``build()`` kept and returned (built once when threads ask at the
         same time). ``parents(value)`` names the entries the value holds; ``valid(value)`` rejects a kept value
         (rebuilt then). An unhashable key builds afresh without keeping."""
@@ -242,7 +255,8 @@ class Workspace:
             if found is not _MISSING and (valid is None or valid(found)):
                 return found
             value = build()
-            self.put(kind, key, value, parents=parents(value) if parents is not None else (), owner=owner)
+            self.put(kind, key, value, parents=parents(value) if parents is not None else (), owner=owner,
+                     grows=grows)
         with self._lock:
             self._building.pop(full, None)
         return value

@@ -19,7 +19,7 @@ from ..mapping import QubitMapping
 from ..sector.strings import interleaved_signs, make_strings
 from ..workspace import workspace
 from .tapering import Taper, make_taper
-from .transforms import basis_matrix, fermion_to_qubit
+from .transforms import basis_matrix, fermion_to_qubit, hamiltonian_image
 
 QUBIT_STATE_LIMIT = 22  # qubit-level statevectors (2^n amplitudes) only up to this many qubits
 
@@ -36,7 +36,7 @@ class QubitEncoding:
         self.mapping = mapping
         self.n_modes = 2 * int(problem.n_orbitals)
         self.matrix = basis_matrix(mapping, self.n_modes)
-        self._untapered = fermion_to_qubit(problem.fermion_hamiltonian(), mapping, self.n_modes)
+        self._untapered = hamiltonian_image(problem, mapping, self.n_modes)
         self._untapered.compress(abs_tol=1e-12)
         self.taper: Taper | None = None
         if mapping.taper:
@@ -206,4 +206,4 @@ def encoding_for(problem: Any, mapping: QubitMapping) -> QubitEncoding:
 
     key = ((problem.molecule, problem.active_space), mapping)
     return workspace().fetch("encoding", key, build, parents=lambda encoding: (encoding.problem,),
-                             valid=lambda encoding: encoding.problem is problem)
+                             valid=lambda encoding: encoding.problem is problem, grows=True)
