@@ -20,6 +20,7 @@ from .estimators import Estimator, ExactEstimator
 from .mapping import QubitMapping
 from .molecule import MoleculeSpec
 from .problem import Problem, build_problem, cached_problem, problem_key
+from .upcalls import provides, upcall
 from .workspace import workspace
 
 
@@ -197,9 +198,8 @@ class Pipeline:
         """
         self.check_size(("scf", "integrals", "reference", "engine"), "this run")
         if live or progress:
-            from .widgets.running import run_watched
-
-            return run_watched(self, callback, live=live, progress=progress, initial_parameters=initial_parameters)
+            return upcall("run:watched", self, callback, live=live, progress=progress,
+                          initial_parameters=initial_parameters)
         from .runner import run_pipeline
 
         return run_pipeline(self, callback, initial_parameters=initial_parameters)
@@ -225,10 +225,8 @@ class Pipeline:
         ``distributed.Client``. Ctrl-C stops the scan (KeyboardInterrupt); the point in progress is not stored.
         See docs/studies.md.
         """
-        from .studies.scan import run_scan
-
-        return run_scan(self, geometry, values, checkpoint=checkpoint, executor=executor, warm_start=warm_start,
-                        progress=progress, retry_failed=retry_failed)
+        return upcall("study:scan", self, geometry, values, checkpoint=checkpoint, executor=executor,
+                      warm_start=warm_start, progress=progress, retry_failed=retry_failed)
 
     def optimise_geometry(
         self, geometry: Callable[..., MoleculeSpec], initial: Any, *, bounds: Any = None,
@@ -236,10 +234,8 @@ class Pipeline:
     ) -> Any:
         """Minimise the energy over geometry parameters with SciPy; returns a
         :class:`~groundkit.studies.GeometryOptimum` with the optimised geometry. See docs/studies.md."""
-        from .studies.geometry_optimisation import optimise_geometry
-
-        return optimise_geometry(self, geometry, initial, bounds=bounds, method=method, tolerance=tolerance,
-                                 max_evaluations=max_evaluations, warm_start=warm_start)
+        return upcall("study:optimise_geometry", self, geometry, initial, bounds=bounds, method=method,
+                      tolerance=tolerance, max_evaluations=max_evaluations, warm_start=warm_start)
 
     def __repr__(self) -> str:
         chosen = self.components
@@ -256,3 +252,9 @@ def _is_qubit_trial_state(trial_state: Any) -> bool:
     from .qubit_states import QubitTrialState
 
     return isinstance(trial_state, QubitTrialState)
+
+
+@provides("pipeline")
+def _pipeline_of(molecule: MoleculeSpec) -> Pipeline:
+    """``MoleculeSpec.pipeline()``."""
+    return Pipeline(molecule)

@@ -17,6 +17,7 @@ from .baselines import Baselines
 from .errors import IntegralConsistencyError, SizeLimitError
 from .molecule import MoleculeSpec
 from .reference import Reference, make_state
+from .upcalls import upcall
 from .workspace import workspace
 
 REFERENCE_DETERMINANT_LIMIT = 20_000_000  # exact reference only up to this many determinants (~160 MB a vector)
@@ -171,9 +172,7 @@ class Problem:
         ]
 
     def _repr_html_(self) -> str:
-        from .widgets.html import problem_html
-
-        return problem_html(self)
+        return upcall("html:problem", self)
 
     def __repr__(self) -> str:
         return (f"Problem({self.molecule.formula}, {self.active_orbitals.n_electrons}e/{self.n_orbitals}o, "

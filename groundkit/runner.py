@@ -54,10 +54,11 @@ def _run(pipeline: Pipeline, problem: Problem, components: dict, callback: Calla
         return minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient, callback=callback)
 
     if callback is None and type(components["estimator"]) is ExactEstimator:
-        # exact energies do not depend on the mapping: another mapping's run reuses the same minimisation
+        # exact energies do not depend on the mapping: another mapping's run reuses the same minimisation (only a
+        # converged one: an interrupted or budget-limited search runs again)
         key = (id(objective), components["estimator"], minimiser, x0.tobytes())
         outcome = workspace().fetch("minimisation", key, minimise, owner=objective,
-                                    valid=lambda found: np.isfinite(found.energy))
+                                    valid=lambda found: found.converged and np.isfinite(found.energy))
     else:
         outcome = minimise()
     if not np.isfinite(outcome.energy):  # interrupted before the first evaluation finished

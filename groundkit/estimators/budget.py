@@ -12,7 +12,7 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import ComponentError
+from ..errors import ComponentError, SymmetryError
 from .groups import GROUPINGS, group_moments, measurement_groups
 from .sampled import ALLOCATIONS, statevector
 
@@ -56,7 +56,6 @@ def compare_measurements(pipeline: Any, precision: float = 1.6e-3, parameters: A
     """
     import pandas as pd
 
-    from ..errors import SymmetryError
     from ..mapping import MAPPINGS, QubitMapping
 
     rows = []
