@@ -52,6 +52,7 @@ from .errors import (
     SizeLimitError,
     StudyFileError,
     SymmetryError,
+    WorkspaceBudgetError,
     XYZFormatError,
 )
 from .estimators import (
@@ -108,6 +109,7 @@ from .studies import (
 )
 from .trial_states import UCCSD, ExcitationList, PairDoubles, ReferenceDeterminant, TrialState, UpCCGSD
 from .widgets import explore
+from .workspace import Workspace, workspace
 
 __version__ = "0.1.0"
 
@@ -136,4 +138,5 @@ __all__ = [
     "orbital_optimised_run",
     "DeviceCircuit", "DeviceError", "DeviceProfile", "compare_devices", "compile_for_device",
     "PlanInputError", "PlanLimits", "PlanResult", "Recommendation", "load_plan", "plan",
+    "Workspace", "WorkspaceBudgetError", "workspace",
 ]

@@ -12,6 +12,7 @@ start of ``chemistry.CC_STARTS``. docs/baselines.md lists the checks and why the
 
 from __future__ import annotations
 
+import threading
 from collections.abc import Callable, Iterator, Mapping
 from dataclasses import dataclass, field
 from math import comb
@@ -19,6 +20,7 @@ from typing import TYPE_CHECKING, Any
 
 from . import chemistry
 from .errors import GroundkitError
+from .threads import is_small, one_thread_if
 
 if TYPE_CHECKING:  # pragma: no cover
     from .problem import Problem
@@ -143,7 +145,9 @@ class Baselines(Mapping):
                 "baseline_notes": {m: self.note(m) for m in METHODS if self.note(m)}}
 
     def _compute(self, key: str) -> float:
-        computed = _COMPUTE[key](self._problem)
+        p = self._problem
+        with one_thread_if(is_small(0, int(p.scf.mo_coeff.shape[0]))):  # busy cores: threads slow small solvers
+            computed = _COMPUTE[key](p)
         if isinstance(computed, Computed):
             if computed.diagnostics:
                 self._diagnostics[key] = dict(computed.diagnostics)
@@ -327,3 +331,55 @@ _COMPUTE: dict[str, Callable[[Problem], float | Computed]] = {
     "hf": _hf, "mp2": _correlated("mp2"), "cisd": _correlated("cisd"), "ccsd": _correlated("ccsd"),
     "ccsd(t)": _correlated("ccsd(t)"), "casci": _casci, "fci": _fci,
 }
+
+
+class DeferredFields:
+    """A problem's :meth:`Baselines.result_fields`, computed on first use and then kept as plain dicts.
+
+    A run hands these to its :class:`~groundkit.result.RunResult`, so the baselines a run does not need (CCSD(T)
+    and FCI on a new molecule) are computed only when the result is read, saved, compared or shown, and only once
+    per problem (the problem keeps them). Until then the result holds the problem's ``Baselines``.
+    """
+
+    def __init__(self, baselines: Baselines) -> None:
+        self._source: Baselines | None = baselines
+        self._fields: dict[str, Any] | None = None
+        self._lock = threading.Lock()
+
+    def fields(self) -> dict[str, Any]:
+        with self._lock:
+            if self._fields is None:
+                assert self._source is not None
+                self._fields = self._source.result_fields()
+                self._source = None  # from now on plain data only
+            return self._fields
+
+    def mappings(self) -> dict[str, DeferredMapping]:
+        """``baselines``, ``suspect_baselines`` and ``baseline_notes`` as lazy mappings (RunResult fields)."""
+        return {name: DeferredMapping(self, name) for name in ("baselines", "suspect_baselines", "baseline_notes")}
+
+
+class DeferredMapping(Mapping):
+    """One field of :class:`DeferredFields`: a read-only mapping that computes on first access; copies, pickles
+    and compares as the plain dict it stands for."""
+
+    def __init__(self, deferred: DeferredFields, name: str) -> None:
+        self._deferred, self._name = deferred, name
+
+    def _dict(self) -> dict:
+        return self._deferred.fields()[self._name]
+
+    def __getitem__(self, key: str) -> Any:
+        return self._dict()[key]
+
+    def __iter__(self) -> Iterator[str]:
+        return iter(self._dict())
+
+    def __len__(self) -> int:
+        return len(self._dict())
+
+    def __reduce__(self) -> tuple:
+        return (dict, (dict(self._dict()),))
+
+    def __repr__(self) -> str:
+        return repr(self._dict())

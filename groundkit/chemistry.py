@@ -1,13 +1,13 @@
 """The chemistry layer: every call into PySCF lives here (SCF, integrals, classical baselines, FCI solves).
 
 Functions take and return plain numbers and arrays; PySCF objects stay private to this module. SCF solutions
-are cached per :class:`~groundkit.molecule.MoleculeSpec`, so repeated calls for one molecule cost nothing.
+are kept in the workspace per :class:`~groundkit.molecule.MoleculeSpec` (kind ``SCF``), so repeated calls for
+one molecule cost nothing.
 """
 
 from __future__ import annotations
 
 import warnings
-from collections import OrderedDict
 from collections.abc import Callable, Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field
@@ -17,11 +17,11 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from .errors import ActiveSpaceError, BasisError, ConvergenceError, ScfFallbackWarning, ScfInstabilityWarning
+from .workspace import workspace
 
 if TYPE_CHECKING:  # pragma: no cover
     from .molecule import MoleculeSpec
 
-SCF_CACHE_SIZE = 64
 SCF_CONV_TOL = 1e-10  # Hartree
 SCF_MAX_CYCLES = (100, 300, 100)  # plain DIIS, DIIS with level shift, second-order solver
 SCF_INITIAL_GUESS = "minao"  # PySCF's superposition of atomic densities: no randomness, the same on every run
@@ -124,9 +124,6 @@ class ScfSolution:
         """The instabilities found by :meth:`stability`, or None for a stable solution."""
         result = self.stability()
         return None if result.stable else result.description
-
-
-_SCF_CACHE: OrderedDict[MoleculeSpec, ScfSolution] = OrderedDict()  # type: ignore[name-defined]
 
 
 @lru_cache(maxsize=512)
@@ -234,10 +231,10 @@ def solve_scf(spec: MoleculeSpec) -> ScfSolution:
     Deterministic: a fixed initial guess and :data:`SCF_THREADS` threads, whatever the environment sets. A
     fallback warns :class:`~groundkit.errors.ScfFallbackWarning` and runs the stability analysis at once.
     """
-    cached = _SCF_CACHE.get(spec)
-    if cached is not None:
-        _SCF_CACHE.move_to_end(spec)
-        return cached
+    return workspace().fetch("SCF", spec, lambda: _solve_scf(spec))
+
+
+def _solve_scf(spec: MoleculeSpec) -> ScfSolution:
     mol = build_mole(spec)
     with scf_threads():
         mf, attempts = _converge(mol)
@@ -264,9 +261,6 @@ def solve_scf(spec: MoleculeSpec) -> ScfSolution:
             "the stability analysis follows (see problem.summary())", ScfFallbackWarning, stacklevel=2,
         )
         solution.stability()
-    _SCF_CACHE[spec] = solution
-    while len(_SCF_CACHE) > SCF_CACHE_SIZE:
-        _SCF_CACHE.popitem(last=False)
     return solution
 
 
@@ -329,8 +323,8 @@ def _analyse_stability(mf: Any, method: str) -> ScfStability:
 
 
 def clear_cache() -> None:
-    """Forget every cached SCF solution."""
-    _SCF_CACHE.clear()
+    """Forget every kept SCF solution (and the problems built on them) in the workspace."""
+    workspace().clear("SCF")
 
 
 def active_integrals(

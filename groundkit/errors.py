@@ -59,6 +59,10 @@ class ComponentError(GroundkitError):
     """An unknown component name or an option out of range."""
 
 
+class WorkspaceBudgetError(GroundkitError):
+    """A workspace budget that is not a positive, finite number of bytes."""
+
+
 class DegenerateBoundaryWarning(UserWarning):
     """An active-space boundary that cuts through a set of degenerate orbitals."""
 

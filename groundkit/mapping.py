@@ -114,28 +114,37 @@ class BravyiKitaev(QubitMapping):
 class Parity(QubitMapping):
     """The parity encoding: qubit k holds the parity of spin orbitals 0..k (OpenFermion's ``parity_code``)."""
 
-    def transform(self, operator: Any, n_modes: int) -> Any:
-        from openfermion import binary_code_transform, parity_code
+    def basis_matrix(self, n_modes: int) -> np.ndarray:
+        """The encoder matrix of OpenFermion's ``parity_code``: lower triangle of ones."""
+        from openfermion import parity_code
 
-        return binary_code_transform(_fermion(operator), parity_code(n_modes))
+        return np.asarray(parity_code(n_modes).encoder.toarray(), dtype=np.uint8)
+
+    def transform(self, operator: Any, n_modes: int) -> Any:
+        """Equal to OpenFermion's ``binary_code_transform`` with ``parity_code``, computed from the Jordan–Wigner
+        image (see :mod:`groundkit.qubits.linear_images`)."""
+        from .qubits.linear_images import linear_image
+        from .qubits.transforms import basis_matrix
+
+        return linear_image(operator, basis_matrix(self, n_modes))
 
 
 @dataclass(frozen=True, repr=False)
 class LinearMapping(QubitMapping):
     """A mapping given by its binary matrix: implement ``basis_matrix(n_modes)`` (an invertible 0/1 matrix M,
     qubit bits b = M n mod 2); the transform is OpenFermion's ``binary_code_transform`` with encoder M and the
-    linear decoder M^-1 (mod 2). Register the subclass to use it by name."""
+    linear decoder M^-1 (mod 2), computed from the Jordan–Wigner image by one Clifford conjugation
+    (:mod:`groundkit.qubits.linear_images`). Register the subclass to use it by name."""
 
     @abstractmethod
     def basis_matrix(self, n_modes: int) -> np.ndarray:
         """The 0/1 matrix M (n_modes x n_modes) of the encoding for ``n_modes`` spin orbitals."""
 
     def transform(self, operator: Any, n_modes: int) -> Any:
-        from openfermion import binary_code_transform
+        from .qubits.linear_images import linear_image
+        from .qubits.transforms import basis_matrix
 
-        from .qubits.transforms import linear_code
-
-        return binary_code_transform(_fermion(operator), linear_code(self, n_modes))
+        return linear_image(operator, basis_matrix(self, n_modes))
 
 
 MAPPINGS = ("jordan-wigner", "bravyi-kitaev", "parity")

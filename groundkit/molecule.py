@@ -14,6 +14,7 @@ import numpy as np
 from .chemistry import atom_basis_size, check_basis
 from .elements import atomic_number, canonical_symbol
 from .errors import BasisError, ChargeError, ElementError, GeometryError, MultiplicityError, XYZFormatError
+from .upcalls import upcall
 
 if TYPE_CHECKING:  # pragma: no cover
     from .pipeline import Pipeline
@@ -103,9 +104,7 @@ class MoleculeSpec:
 
     def pipeline(self) -> Pipeline:
         """A :class:`~groundkit.pipeline.Pipeline` for this molecule."""
-        from .pipeline import Pipeline
-
-        return Pipeline(self)
+        return upcall("pipeline", self)
 
     # derived facts --------------------------------------------------------------------------------------------
     @property
@@ -151,9 +150,7 @@ class MoleculeSpec:
         return "\n".join(lines) + "\n"
 
     def _repr_html_(self) -> str:
-        from .widgets.html import molecule_html
-
-        return molecule_html(self)
+        return upcall("html:molecule", self)
 
     def __repr__(self) -> str:
         label = f"{self.name!r}, " if self.name else ""

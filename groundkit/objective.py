@@ -14,6 +14,7 @@ import numpy as np
 
 from groundkit.energy_surface import EnergySurface, WarmStart, handover_kind
 from groundkit.errors import ComponentError, ParameterError, SymmetryError
+from groundkit.orbital_matching import orbital_handover, orbital_warm_start
 from groundkit.sector.adjoint import energy_and_angle_gradient
 from groundkit.sector.exponential import apply_product
 from groundkit.sector.hamiltonian import SectorHamiltonian
@@ -134,15 +135,11 @@ class Objective(EnergySurface):
 
     def handover(self, theta: Any) -> dict[str, Any]:
         """Active orbitals, excitations and parameters (radians) at ``theta``, for a warm start by orbital matching."""
-        from groundkit.studies.orbitals import orbital_handover
-
         return orbital_handover(self.problem, self.plan, self.check_parameters(theta))
 
     def warm_start(self, previous: Any, handover: dict[str, Any]) -> WarmStart:
         """Parameters carried from ``handover`` (of the molecule ``previous``) after matching the active orbitals of
         both geometries by overlap (phases and order fixed); excitations with no counterpart start at zero."""
-        from groundkit.studies.orbitals import orbital_warm_start
-
         kind = handover_kind(handover)
         if kind != "orbital-matching":
             return WarmStart.cold(f"previous point hands over by {kind}, this trial state needs orbital matching")

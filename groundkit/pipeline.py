@@ -7,7 +7,6 @@ differ in the trial state still share the chemistry.
 
 from __future__ import annotations
 
-from collections import OrderedDict
 from collections.abc import Callable
 from dataclasses import dataclass, replace
 from typing import Any
@@ -20,9 +19,9 @@ from .errors import ComponentError
 from .estimators import Estimator, ExactEstimator
 from .mapping import QubitMapping
 from .molecule import MoleculeSpec
-from .problem import Problem, build_problem, cached_problem
-
-OBJECTIVE_CACHE_SIZE = 32
+from .problem import Problem, build_problem, cached_problem, problem_key
+from .upcalls import provides, upcall
+from .workspace import workspace
 
 
 @dataclass(frozen=True)
@@ -140,17 +139,9 @@ class Pipeline:
 
             return Objective(problem, trial_state, plan=sector_plan(trial_state, self.encoding()))
 
-        key = (id(problem), trial_state, tapered)
-        try:
-            cached = _OBJECTIVES.get(key)
-        except TypeError:  # an unhashable user trial state: build afresh
-            return build()
-        if cached is None or cached.problem is not problem:
-            cached = build()
-            _OBJECTIVES[key] = cached
-            while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
-                _OBJECTIVES.popitem(last=False)
-        return cached
+        key = (problem_key(problem), trial_state, tapered)
+        return workspace().fetch("objective", key, build, parents=lambda objective: (objective.problem,),
+                                 valid=lambda objective: objective.problem is problem, grows=True)
 
     def check_size(self, stages: tuple[str, ...] = sizing.STAGES, what: str = "this pipeline") -> Any:
         """Raise :class:`~groundkit.errors.SizeLimitError` at once, before any SCF, when a stage's predicted memory
@@ -173,17 +164,10 @@ class Pipeline:
         from .qubit_states import QubitObjective
 
         encoding = self.encoding()
-        key = ("qubit", id(encoding), trial_state)
-        try:
-            cached = _OBJECTIVES.get(key)
-        except TypeError:  # an unhashable user trial state: build afresh
-            return QubitObjective(encoding, trial_state)
-        if cached is None or cached.encoding is not encoding:
-            cached = QubitObjective(encoding, trial_state)
-            _OBJECTIVES[key] = cached
-            while len(_OBJECTIVES) > OBJECTIVE_CACHE_SIZE:
-                _OBJECTIVES.popitem(last=False)
-        return cached
+        key = (problem_key(encoding.problem), encoding.mapping, trial_state)
+        return workspace().fetch("qubit objective", key, lambda: QubitObjective(encoding, trial_state),
+                                 parents=lambda objective: (objective.encoding,),
+                                 valid=lambda objective: objective.encoding is encoding, grows=True)
 
     def circuit(self, theta: Any = None, *, construction: str = "compact") -> Any:
         """A :class:`~groundkit.device.DeviceCircuit` preparing the trial state at ``theta`` (radians; default the
@@ -233,9 +217,8 @@ class Pipeline:
         """
         self.check_size(("scf", "integrals", "reference", "engine"), "this run")
         if live or progress:
-            from .widgets.running import run_watched
-
-            return run_watched(self, callback, live=live, progress=progress, initial_parameters=initial_parameters)
+            return upcall("run:watched", self, callback, live=live, progress=progress,
+                          initial_parameters=initial_parameters)
         from .runner import run_pipeline
 
         return run_pipeline(self, callback, initial_parameters=initial_parameters)
@@ -263,10 +246,8 @@ class Pipeline:
         ``distributed.Client``. Ctrl-C stops the scan (KeyboardInterrupt); the point in progress is not stored.
         See docs/studies.md.
         """
-        from .studies.scan import run_scan
-
-        return run_scan(self, geometry, values, checkpoint=checkpoint, executor=executor, warm_start=warm_start,
-                        progress=progress, retry_failed=retry_failed)
+        return upcall("study:scan", self, geometry, values, checkpoint=checkpoint, executor=executor,
+                      warm_start=warm_start, progress=progress, retry_failed=retry_failed)
 
     def optimise_geometry(
         self, geometry: Callable[..., MoleculeSpec], initial: Any, *, bounds: Any = None,
@@ -274,10 +255,8 @@ class Pipeline:
     ) -> Any:
         """Minimise the energy over geometry parameters with SciPy; returns a
         :class:`~groundkit.studies.GeometryOptimum` with the optimised geometry. See docs/studies.md."""
-        from .studies.geometry_optimisation import optimise_geometry
-
-        return optimise_geometry(self, geometry, initial, bounds=bounds, method=method, tolerance=tolerance,
-                                 max_evaluations=max_evaluations, warm_start=warm_start)
+        return upcall("study:optimise_geometry", self, geometry, initial, bounds=bounds, method=method,
+                      tolerance=tolerance, max_evaluations=max_evaluations, warm_start=warm_start)
 
     def __repr__(self) -> str:
         chosen = self.components
@@ -292,10 +271,13 @@ class Pipeline:
         return "\n".join(lines)
 
 
-_OBJECTIVES: OrderedDict[tuple, Any] = OrderedDict()
-
-
 def _is_qubit_trial_state(trial_state: Any) -> bool:
     from .qubit_states import QubitTrialState
 
     return isinstance(trial_state, QubitTrialState)
+
+
+@provides("pipeline")
+def _pipeline_of(molecule: MoleculeSpec) -> Pipeline:
+    """``MoleculeSpec.pipeline()``."""
+    return Pipeline(molecule)

@@ -6,7 +6,6 @@ minimiser) receive the same Problem object from :func:`build_problem`.
 
 from __future__ import annotations
 
-from collections import OrderedDict
 from dataclasses import replace
 from functools import cached_property
 from math import comb
@@ -20,9 +19,10 @@ from .errors import IntegralConsistencyError, SizeLimitError
 from .molecule import MoleculeSpec
 from .reference import Reference, make_state
 from .space_error import SpaceError, space_error
+from .upcalls import upcall
+from .workspace import workspace
 
 REFERENCE_DETERMINANT_LIMIT = 20_000_000  # exact reference only up to this many determinants (~160 MB a vector)
-PROBLEM_CACHE_SIZE = 64
 HF_CONSISTENCY_TOL = 1e-8  # Hartree: HF determinant energy from the active-space integrals vs the SCF energy
 
 
@@ -227,9 +227,7 @@ class Problem:
         ]
 
     def _repr_html_(self) -> str:
-        from .widgets.html import problem_html
-
-        return problem_html(self)
+        return upcall("html:problem", self)
 
     def __repr__(self) -> str:
         return (f"Problem({self.molecule.formula}, {self.active_orbitals.n_electrons}e/{self.n_orbitals}o, "
@@ -248,24 +246,27 @@ def determinant_energy(h1, h2, core_energy: float, alpha_occ, beta_occ) -> float
     return float(energy)
 
 
-_PROBLEM_CACHE: OrderedDict[tuple, Problem] = OrderedDict()
+def _key(molecule: MoleculeSpec, active_space: ActiveSpace | None) -> tuple:
+    return (molecule, active_space if active_space is not None else ActiveSpace())
+
+
+def problem_key(problem: Problem) -> tuple:
+    """The workspace key of a problem: (molecule, active space)."""
+    return (problem.molecule, problem.active_space)
 
 
 def build_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> Problem:
-    """The shared Problem for this molecule and active space (cached)."""
-    key = (molecule, active_space if active_space is not None else ActiveSpace())
-    problem = _PROBLEM_CACHE.get(key)
-    if problem is None:
+    """The shared Problem for this molecule and active space (kept in the workspace, kind ``problem``)."""
+    key = _key(molecule, active_space)
+
+    def build() -> Problem:
         sizing.check_problem(molecule, key[1])  # SCF and integral memory and time, before any PySCF call
-        problem = Problem(molecule, key[1])
-        _PROBLEM_CACHE[key] = problem
-        while len(_PROBLEM_CACHE) > PROBLEM_CACHE_SIZE:
-            _PROBLEM_CACHE.popitem(last=False)
-    else:
-        _PROBLEM_CACHE.move_to_end(key)
-    return problem
+        return Problem(molecule, key[1])
+
+    return workspace().fetch("problem", key, build, parents=lambda problem: (problem.scf,),
+                             grows=True)
 
 
 def cached_problem(molecule: MoleculeSpec, active_space: ActiveSpace | None = None) -> Problem | None:
-    """The cached Problem for this molecule and active space, or None (nothing is computed)."""
-    return _PROBLEM_CACHE.get((molecule, active_space if active_space is not None else ActiveSpace()))
+    """The kept Problem for this molecule and active space, or None (nothing is computed)."""
+    return workspace().get("problem", _key(molecule, active_space))

@@ -11,6 +11,8 @@ from typing import Any
 
 import numpy as np
 
+from .upcalls import upcall
+
 CHEMICAL_ACCURACY = 1.6e-3  # Hartree (1 kcal/mol = 1.5936 mHa); common practice, no single source
 
 VERDICT_WORDING = {
@@ -250,20 +252,14 @@ class RunResult:
 
     def show(self) -> Any:
         """A notebook widget: energy by iteration beside the exact reference, and the leading determinants."""
-        from .widgets.live import RunView
-
-        return RunView.from_result(self)
+        return upcall("show:result", self)
 
     def plot(self, path: str) -> str:
         """Save energy by iteration and the leading determinants as a PNG at ``path``; returns the path."""
-        from .widgets.plotting import save_result_png
-
-        return save_result_png(self, path)
+        return upcall("png:result", self, path)
 
     def _repr_html_(self) -> str:
-        from .widgets.html import result_html
-
-        return result_html(self)
+        return upcall("html:result", self)
 
     def __eq__(self, other: object) -> bool:
         if not isinstance(other, RunResult):

@@ -8,11 +8,14 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from .baselines import DeferredFields
 from .energy_surface import EnergySurface
-from .estimators import Measurement
+from .estimators import ExactEstimator, Measurement
 from .provenance import provenance
 from .resources import resources_for
 from .result import History, ReferenceRecord, RunResult
+from .threads import problem_threads
+from .workspace import workspace
 
 if TYPE_CHECKING:  # pragma: no cover
     from .minimisers import MinimiserOutcome
@@ -25,26 +28,43 @@ def run_pipeline(
 ) -> RunResult:
     """Minimise the pipeline's objective with its minimiser and estimator; nothing computed is lost on Ctrl-C."""
     from .adaptive import Adaptive, run_adaptive
-    from .minimisers import MinimiserOutcome
 
     components = pipeline.resolved_components()
     if isinstance(components["trial_state"], Adaptive):  # grown during the run: no fixed objective
         return run_adaptive(pipeline, callback, initial_parameters)
     problem = pipeline.problem()
+    with problem_threads(problem):  # one BLAS/OpenMP thread for small problems (see groundkit.threads)
+        return _run(pipeline, problem, components, callback, initial_parameters)
+
+
+def _run(pipeline: Pipeline, problem: Problem, components: dict, callback: Callable[[Any], None] | None,
+         initial_parameters: Any) -> RunResult:
+    from .minimisers import MinimiserOutcome
+
     objective = pipeline.objective()
     measurement, minimiser = components["estimator"].bind(pipeline), components["minimiser"]
     x0 = objective.initial_parameters() if initial_parameters is None else objective.check_parameters(
         initial_parameters)
     gradient = measurement.energy_and_gradient if measurement.provides_gradient else None
-    if objective.n_parameters == 0:
-        outcome = MinimiserOutcome(parameters=x0, energy=measurement.energy(x0), converged=True,
-                                   stop_reason="the trial state has no parameters", iterations=(), evaluations=1)
+
+    def minimise() -> MinimiserOutcome:
+        if objective.n_parameters == 0:
+            return MinimiserOutcome(parameters=x0, energy=measurement.energy(x0), converged=True,
+                                    stop_reason="the trial state has no parameters", iterations=(), evaluations=1)
+        notes = _ErrorNotes(callback, measurement)  # each record gets the standard error of its own estimate
+        found = minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient, callback=notes)
+        return replace(found, iterations=tuple(replace(r, standard_error=notes.errors.get(int(r.iteration)))
+                                               if int(r.iteration) in notes.errors else r
+                                               for r in found.iterations))
+
+    if callback is None and type(components["estimator"]) is ExactEstimator:
+        # exact energies do not depend on the mapping: another mapping's run reuses the same minimisation (only a
+        # converged one: an interrupted or budget-limited search runs again)
+        key = (id(objective), components["estimator"], minimiser, x0.tobytes())
+        outcome = workspace().fetch("minimisation", key, minimise, owner=objective,
+                                    valid=lambda found: found.converged and np.isfinite(found.energy))
     else:
-        notes = _ErrorNotes(callback, measurement)
-        outcome = minimiser.minimise(measurement.energy, x0, energy_and_gradient=gradient, callback=notes)
-        outcome = replace(outcome, iterations=tuple(replace(r, standard_error=notes.errors.get(int(r.iteration)))
-                                                    if int(r.iteration) in notes.errors else r
-                                                    for r in outcome.iterations))
+        outcome = minimise()
     if not np.isfinite(outcome.energy):  # interrupted before the first evaluation finished
         outcome = replace(outcome, energy=measurement.energy(outcome.parameters))
     return build_result(pipeline, problem, objective, outcome, components, measurement)
@@ -118,7 +138,7 @@ def build_result(
         reference=ReferenceRecord(energy=reference.energy, multiplicity=reference.multiplicity,
                                   spin_square=reference.spin_square, amplitudes=reference.amplitudes,
                                   method=reference.method),
-        **problem.baselines.result_fields(),  # values, suspect ones and notes; never raises
+        **DeferredFields(problem.baselines).mappings(),  # values, suspect ones, notes: computed when first read
         amplitudes={label: float(np.real(phase * a)) for label, a in objective.amplitudes(theta).items()},
         fidelity=overlap * overlap / norm,
         spin_square=float(objective.spin_square(theta)),

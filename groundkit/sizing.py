@@ -32,6 +32,7 @@ import numpy as np
 from . import chemistry
 from .elements import frozen_core_orbitals
 from .errors import ComponentError, GroundkitError, SizeLimitError
+from .workspace import workspace
 
 # ----------------------------------------------------------------------------------------------------------------
 # the cost model; constants fitted by ``benchmarks/cost_model.py --fit`` on the 2-core development machine, shared with
@@ -409,24 +410,11 @@ def predict_window(molecule: Any, active_space: Any, n_ao: int) -> Window | None
     return Window(n_orbitals, n_alpha, n_beta, core)
 
 
-_PLANS: dict[tuple, tuple[int | None, int, int, str]] = {}
-PLAN_CACHE_SIZE = 256
-
-
 def _trial_plan(trial_state: Any, window: Window, multiplicity: int) -> tuple[int | None, int, int, str]:
     """(parameters, excitations, rotated pairs, note) of a fermionic trial state on a window, without integrals
-    (kept per trial state and window: a scan's points share one)."""
-    try:
-        key = (trial_state, window, multiplicity)
-        found = _PLANS.get(key)
-    except TypeError:  # an unhashable user trial state
-        return _plan_figures(trial_state, window, multiplicity)
-    if found is None:
-        found = _plan_figures(trial_state, window, multiplicity)
-        if len(_PLANS) >= PLAN_CACHE_SIZE:
-            _PLANS.clear()
-        _PLANS[key] = found
-    return found
+    (kept in the workspace per trial state and window: a scan's points share one)."""
+    return workspace().fetch("trial-state plan", (trial_state, window, multiplicity),
+                             lambda: _plan_figures(trial_state, window, multiplicity))
 
 
 def _plan_figures(trial_state: Any, window: Window, multiplicity: int) -> tuple[int | None, int, int, str]:

@@ -303,12 +303,7 @@ def test_result_files_without_baseline_checks_still_load(lih, tmp_path):
 
 @pytest.mark.slow  # several PySCF CCSD runs (a few seconds on a quiet machine)
 def test_scan_marks_the_points_where_a_baseline_is_suspect(monkeypatch, tmp_path):
-    from collections import OrderedDict
-
-    from groundkit import problem as problem_module
-
-    monkeypatch.setattr(problem_module, "_PROBLEM_CACHE", OrderedDict())  # fresh problems and SCF solutions
-    monkeypatch.setattr(chemistry, "_SCF_CACHE", OrderedDict())
+    gk.workspace().clear()  # fresh problems and SCF solutions
     monkeypatch.setattr(chemistry, "CC_STARTS", chemistry.CC_STARTS[:1])  # PySCF's defaults only
     scan = gk.Pipeline().scan(_h2, [0.7414, 6.0], warm_start=False)
     table = scan.table

@@ -133,7 +133,7 @@ def test_200_atom_hydrogen_cluster_is_refused_before_scf(no_scf):
     with gk.limits.changed(memory_bytes=8 * 2**30):
         with pytest.raises(gk.SizeLimitError, match=r"active-space integrals \(200e, 200o\) needs 17.9 GiB"):
             gk.Pipeline(h200).problem()
-    assert h200 not in chemistry._SCF_CACHE
+    assert ("SCF", h200) not in gk.workspace()
 
 
 def test_200_atom_carbon_cluster_problem_is_refused_before_scf(no_scf):

@@ -17,7 +17,6 @@ each factor a Pauli-string exponential. The images are computed once per (encodi
 
 from __future__ import annotations
 
-import weakref
 from typing import Any
 
 import cirq
@@ -27,6 +26,7 @@ from openfermion import FermionOperator
 from ..errors import ComponentError, SymmetryError
 from ..sector.excitation import Excitation
 from ..trial_states.base import ExcitationPlan, excitation_label
+from ..workspace import workspace
 from .compact import jordan_wigner_excitation
 from .linear_network import encoding_network
 from .optimise import optimise_circuit
@@ -35,9 +35,6 @@ from .simplify import flatten, reduce_steps
 from .steps import Step, cnot, one, operations
 
 CONSTRUCTIONS = ("compact", "ladder")
-
-_IMAGES: weakref.WeakKeyDictionary[Any, dict[Excitation, list[tuple[PauliString, float]]]] = (
-    weakref.WeakKeyDictionary())
 
 
 def _anticommute(a: PauliString, b: PauliString) -> bool:
@@ -51,9 +48,11 @@ def generator_terms(encoding: Any, excitation: Excitation) -> list[tuple[PauliSt
     Raises :class:`SymmetryError` when the excitation leaves the tapered sector, :class:`ComponentError` when the
     image is not of that form (which no linear encoding produces).
     """
-    cache = _IMAGES.setdefault(encoding, {})
-    if excitation in cache:
-        return cache[excitation]
+    return workspace().fetch("excitation image", (id(encoding), excitation),
+                             lambda: _generator_terms(encoding, excitation), owner=encoding)
+
+
+def _generator_terms(encoding: Any, excitation: Excitation) -> list[tuple[PauliString, float]]:
     term = excitation.operator_term()
     generator = FermionOperator(term) - FermionOperator(excitation.adjoint().operator_term())
     try:
@@ -80,7 +79,6 @@ def generator_terms(encoding: Any, excitation: Excitation) -> list[tuple[PauliSt
                     f"image of excitation {excitation_label(excitation)} under {encoding.mapping!r} has "
                     f"anticommuting Pauli strings {a} and {b}; it cannot be compiled as a product of exponentials"
                 )
-    cache[excitation] = terms
     return terms
 
 

@@ -13,6 +13,7 @@ from typing import Any
 import numpy as np
 
 from ..component import Component
+from ..errors import ComponentError
 
 
 class Measurement(ABC):
@@ -41,7 +42,6 @@ class Measurement(ABC):
 
     def energy_and_gradient(self, theta: np.ndarray) -> tuple[float, np.ndarray]:
         """(energy, gradient in Ha/rad); only when ``provides_gradient``."""
-        from ..errors import ComponentError
 
         raise ComponentError(f"{type(self).__name__} gives no gradients; use a gradient-free minimiser (COBYLA, "
                              "Nelder-Mead, SPSA)")

@@ -12,7 +12,7 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import ComponentError
+from ..errors import ComponentError, GroundkitError, SymmetryError
 from .grouping import as_grouping, grouping_names, groups_for
 from .groups import group_moments
 from .sampled import ALLOCATIONS, statevector
@@ -57,7 +57,6 @@ def compare_measurements(pipeline: Any, precision: float = 1.6e-3, parameters: A
     """
     import pandas as pd
 
-    from ..errors import GroundkitError, SymmetryError
     from ..mapping import MAPPINGS, QubitMapping
     from .measurement_circuits import measurement_cost
 

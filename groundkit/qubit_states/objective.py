@@ -7,7 +7,6 @@ method (see :mod:`.program`). Warm starts across geometries reuse the parameter 
 
 from __future__ import annotations
 
-import weakref
 from functools import cached_property
 from typing import Any
 
@@ -16,18 +15,16 @@ import numpy as np
 from ..energy_surface import EnergySurface, WarmStart, handover_kind
 from ..errors import ComponentError
 from ..sector.strings import determinant_label, make_strings
+from ..workspace import workspace
 from .base import QubitTrialState
 from .parameters import checked_parameters
 
-_SPARSE: weakref.WeakKeyDictionary[Any, Any] = weakref.WeakKeyDictionary()
-
 
 def shared_sparse_hamiltonian(encoding: Any) -> Any:
-    """The encoding's sparse qubit Hamiltonian, built once per encoding (objectives of one register share it)."""
-    matrix = _SPARSE.get(encoding)
-    if matrix is None:
-        matrix = _SPARSE[encoding] = encoding.sparse_hamiltonian()
-    return matrix
+    """The encoding's sparse qubit Hamiltonian, built once per encoding (objectives of one register share it;
+    kept in the workspace as long as the encoding lives)."""
+    return workspace().fetch("sparse operator", ("hamiltonian", id(encoding)), encoding.sparse_hamiltonian,
+                             owner=encoding)
 
 
 class QubitObjective(EnergySurface):

@@ -22,7 +22,6 @@ from __future__ import annotations
 import re
 from collections.abc import Sequence
 from dataclasses import dataclass
-from functools import lru_cache
 from typing import Any
 
 import cirq
@@ -31,6 +30,7 @@ import sympy
 
 from ..errors import ComponentError
 from ..registry import register
+from ..workspace import workspace
 from .base import QubitTrialState
 
 PauliTerm = tuple[tuple[int, str], ...]
@@ -112,10 +112,10 @@ class PauliAction:
         return factors * psi[source]
 
 
-@lru_cache(maxsize=512)
 def shared_action(term: PauliTerm, n_qubits: int) -> PauliAction:
-    """A kept :class:`PauliAction`, shared by every objective that rotates by the same string on the register."""
-    return PauliAction(term, n_qubits)
+    """A kept :class:`PauliAction`, shared by every objective that rotates by the same string on the register
+    (in the workspace, kind ``Pauli action``: 12 to 20 bytes per basis state each)."""
+    return workspace().fetch("Pauli action", (term, n_qubits), lambda: PauliAction(term, n_qubits))
 
 
 class RotationProgram:

@@ -8,7 +8,6 @@ Qubit k is index k of the qubit Hamiltonian; qubit 0 is the most significant bit
 from __future__ import annotations
 
 import warnings
-from collections import OrderedDict
 from functools import cached_property
 from typing import Any
 
@@ -18,11 +17,11 @@ from openfermion import FermionOperator, QubitOperator, get_sparse_operator
 from ..errors import SizeLimitError
 from ..mapping import QubitMapping
 from ..sector.strings import interleaved_signs, make_strings
+from ..workspace import workspace
 from .tapering import Taper, make_taper
-from .transforms import basis_matrix, fermion_to_qubit
+from .transforms import basis_matrix, fermion_to_qubit, hamiltonian_image
 
 QUBIT_STATE_LIMIT = 22  # qubit-level statevectors (2^n amplitudes) only up to this many qubits
-_CACHE: OrderedDict[tuple, QubitEncoding] = OrderedDict()
 
 
 class SectorWarning(UserWarning):
@@ -37,7 +36,7 @@ class QubitEncoding:
         self.mapping = mapping
         self.n_modes = 2 * int(problem.n_orbitals)
         self.matrix = basis_matrix(mapping, self.n_modes)
-        self._untapered = fermion_to_qubit(problem.fermion_hamiltonian(), mapping, self.n_modes)
+        self._untapered = hamiltonian_image(problem, mapping, self.n_modes)
         self._untapered.compress(abs_tol=1e-12)
         self.taper: Taper | None = None
         if mapping.taper:
@@ -192,20 +191,20 @@ def _real(operator: QubitOperator) -> QubitOperator:
 
 
 def encoding_for(problem: Any, mapping: QubitMapping) -> QubitEncoding:
-    """The shared QubitEncoding of a problem under a mapping (cached); warns if tapering excludes the ground state."""
-    key = (id(problem), mapping)
-    cached = _CACHE.get(key)
-    if cached is None or cached.problem is not problem:
-        cached = QubitEncoding(problem, mapping)
-        _CACHE[key] = cached
-        while len(_CACHE) > 32:
-            _CACHE.popitem(last=False)
-        if cached.taper is not None:
-            weight = cached.reference_weight_in_sector()
+    """The shared QubitEncoding of a problem under a mapping (kept in the workspace); warns if tapering excludes
+    the ground state."""
+    def build() -> QubitEncoding:
+        encoding = QubitEncoding(problem, mapping)
+        if encoding.taper is not None:
+            weight = encoding.reference_weight_in_sector()
             if weight < 1 - 1e-8:
                 warnings.warn(
                     f"the exact ground state has only {weight:.6f} of its weight in the tapered sector of the "
                     "reference determinant; the tapered Hamiltonian's ground state is another symmetry's",
-                    SectorWarning, stacklevel=2,
+                    SectorWarning, stacklevel=3,
                 )
-    return cached
+        return encoding
+
+    key = ((problem.molecule, problem.active_space), mapping)
+    return workspace().fetch("encoding", key, build, parents=lambda encoding: (encoding.problem,),
+                             valid=lambda encoding: encoding.problem is problem, grows=True)

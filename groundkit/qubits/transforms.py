@@ -8,7 +8,6 @@ images of the number operators, n_i -> (1 - Z_F(i)) / 2.
 
 from __future__ import annotations
 
-from functools import lru_cache
 from typing import Any
 
 import numpy as np
@@ -16,7 +15,9 @@ from openfermion import FermionOperator, QubitOperator
 
 from ..errors import ComponentError
 from ..mapping import QubitMapping
+from ..workspace import workspace
 from .gf2 import inverse
+from .linear_images import from_jordan_wigner
 
 
 def _as_mapping(mapping: QubitMapping | str) -> QubitMapping:
@@ -29,18 +30,38 @@ def fermion_to_qubit(operator: Any, mapping: QubitMapping | str, n_modes: int) -
     return _as_mapping(mapping).transform(operator, n_modes)
 
 
+def hamiltonian_image(problem: Any, mapping: QubitMapping, n_modes: int) -> QubitOperator:
+    """The problem's Hamiltonian under ``mapping`` before tapering (a new operator).
+
+    The Jordan–Wigner image is computed once per problem (kept in the workspace, kind ``Jordan–Wigner image``);
+    the built-in linear encodings and :class:`~groundkit.mapping.LinearMapping` subclasses that keep its
+    transform are carried from it by one Clifford conjugation (:mod:`groundkit.qubits.linear_images`), so a
+    second mapping of the same problem costs milliseconds. Any other mapping uses its own ``transform``.
+    """
+    from openfermion import jordan_wigner
+
+    from ..mapping import BravyiKitaev, JordanWigner, LinearMapping, Parity
+
+    method = type(mapping).transform
+    if method not in (JordanWigner.transform, Parity.transform, LinearMapping.transform, BravyiKitaev.transform):
+        return fermion_to_qubit(problem.fermion_hamiltonian(), mapping, n_modes)
+    image = workspace().fetch("Jordan–Wigner image", (problem.molecule, problem.active_space),
+                              lambda: jordan_wigner(problem.fermion_hamiltonian()), owner=problem)
+    if method is JordanWigner.transform:
+        out = QubitOperator()
+        out.terms = dict(image.terms)
+        return out
+    return from_jordan_wigner(image, basis_matrix(mapping, n_modes))
+
+
 def basis_matrix(mapping: QubitMapping | str, n_modes: int) -> np.ndarray:
     """0/1 matrix M (n_modes x n_modes) with qubit bits b = M n mod 2 for occupations n, checked (cached)."""
     value = _as_mapping(mapping).untapered()
     try:
-        return _cached_matrix(value, int(n_modes))
+        hash(value)
     except TypeError:  # a user mapping with unhashable options: compute afresh
         return _checked_matrix(value, int(n_modes))
-
-
-@lru_cache(maxsize=64)
-def _cached_matrix(mapping: QubitMapping, n_modes: int) -> np.ndarray:
-    return _checked_matrix(mapping, n_modes)
+    return workspace().fetch("basis matrix", (value, int(n_modes)), lambda: _checked_matrix(value, int(n_modes)))
 
 
 def _checked_matrix(mapping: QubitMapping, n_modes: int) -> np.ndarray:

@@ -13,6 +13,8 @@ import numpy as np
 from scipy import constants
 from scipy.interpolate import CubicSpline
 
+from groundkit.baselines import METHODS
+from groundkit.chemistry import most_abundant_isotope_mass
 from groundkit.errors import ExcludedPointsWarning
 
 from .errors import AnalysisError
@@ -100,7 +102,6 @@ def diatomic_wavenumber(scan: Any, masses: tuple[float, float] | None = None, co
                         include_unconverged: bool = False) -> float:
     """Harmonic wavenumber (cm^-1) of a diatomic scan, the bond length taken from each point's molecule; the
     points used are those of :func:`fit_mask`."""
-    from groundkit.chemistry import most_abundant_isotope_mass
 
     keep = fit_mask(scan, column, include_unconverged)
     points = [p for p, k in zip(scan.points, keep) if k]
@@ -122,7 +123,6 @@ def diatomic_wavenumber(scan: Any, masses: tuple[float, float] | None = None, co
 def non_parallelity(table: Any) -> dict[str, float]:
     """max(E − E_exact) − min(E − E_exact) (Ha) along the curve for 'energy' and each baseline column (the
     baseline names are those of :data:`groundkit.baselines.METHODS`, the one list of them)."""
-    from groundkit.baselines import METHODS
 
     reference = table["reference"].to_numpy(dtype=float)
     ok = np.isfinite(reference)

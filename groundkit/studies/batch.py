@@ -14,7 +14,7 @@ import warnings
 from groundkit.errors import OutputExistsError
 
 from .checkpoint import clear_checkpoint
-from .errors import StudyFileError
+from .errors import AnalysisError, StudyFileError
 from .geometries import BondStretch
 from .toml_file import Study
 
@@ -89,7 +89,6 @@ def remove_outputs(directory: str) -> None:
 def _analysis(scan) -> str:
     """Equilibrium, wavenumber and non-parallelity lines where the scan allows them; points left out of the fits
     (not converged) are named."""
-    from .errors import AnalysisError
 
     lines = []
     with warnings.catch_warnings(record=True) as caught:

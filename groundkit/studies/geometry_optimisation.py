@@ -20,6 +20,7 @@ from scipy.optimize import minimize
 from groundkit.molecule import MoleculeSpec
 from groundkit.persistence import result_from_dict
 from groundkit.result import RunResult
+from groundkit.upcalls import provides
 
 from .errors import AnalysisError, ScanInputError
 from .work import Task, components_of, run_task
@@ -47,6 +48,7 @@ class GeometryOptimum:
                 f"{self.evaluations}, converged={self.converged})")
 
 
+@provides("study:optimise_geometry")
 def optimise_geometry(
     pipeline: Any, geometry: Callable[..., Any], initial: Any, *, bounds: Any = None,
     method: str = "nelder-mead", tolerance: float = 1e-4, max_evaluations: int = 200, warm_start: bool = True,

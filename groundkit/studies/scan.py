@@ -22,6 +22,7 @@ from groundkit.errors import OrbitalJumpWarning
 from groundkit.molecule import MoleculeSpec
 from groundkit.persistence import result_from_dict
 from groundkit.sizing import check_study
+from groundkit.upcalls import provides
 
 from .checkpoint import CheckpointStore
 from .errors import ScanInputError
@@ -89,6 +90,7 @@ def warm_start_label(warm_start: bool | int) -> str:
     return f"{int(warm_start)} chains"
 
 
+@provides("study:scan")
 def run_scan(
     pipeline: Any,
     geometry: Callable[[float], Any],

@@ -20,6 +20,7 @@ from groundkit.errors import (
 from groundkit.file_reading import FieldFault, Path, as_json, plain_fault, schema_fault, validate
 from groundkit.molecule import MoleculeSpec
 from groundkit.persistence import build_result, read_json, result_to_dict, write_json_atomic
+from groundkit.records import pipeline_from_provenance
 
 from .scan_result import ScanPoint, ScanResult
 
@@ -160,7 +161,6 @@ def scan_pipeline(scan: ScanResult, source: str = "this scan") -> Any:
     """The scan's Pipeline without a molecule (``Pipeline().trial_state(...)...``), rebuilt from the component
     records of its points' provenance; ResultFileError when no point has a result, or the points were written
     before component records existed."""
-    from groundkit.records import pipeline_from_provenance
 
     finished = [p for p in scan.points if p.result is not None]
     if not finished:

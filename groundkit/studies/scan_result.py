@@ -13,6 +13,7 @@ import numpy as np
 
 from groundkit.molecule import MoleculeSpec
 from groundkit.result import RunResult
+from groundkit.upcalls import upcall
 
 
 @dataclass(frozen=True, eq=False)
@@ -171,9 +172,7 @@ class ScanResult:
         import os
 
         if isinstance(ax, (str, os.PathLike)):
-            from groundkit.widgets.plotting import save_scan_png
-
-            return save_scan_png(self, ax, baselines)
+            return upcall("png:scan", self, ax, baselines)
         import matplotlib.pyplot as plt
 
         if ax is None:
@@ -231,9 +230,7 @@ class ScanResult:
         save_scan(self, path)
 
     def _repr_html_(self) -> str:
-        from groundkit.widgets.html import scan_html
-
-        return scan_html(self)
+        return upcall("html:scan", self)
 
     def __repr__(self) -> str:
         ok = sum(1 for p in self.points if p.ok)

@@ -24,6 +24,9 @@ from dataclasses import dataclass
 from typing import Any
 
 from groundkit.errors import GroundkitError
+from groundkit.molecule import MoleculeSpec
+from groundkit.pipeline import Pipeline
+from groundkit.registry import lookup
 
 from .errors import StudyFileError
 
@@ -152,7 +155,6 @@ def read_study(path: str | os.PathLike) -> Study:
 
 
 def _molecule(r: _Reader, table: dict, folder: str) -> Any:
-    from groundkit.molecule import MoleculeSpec
 
     options = {
         "basis": r.get("molecule", table, "basis", (str,), "sto-3g", "a basis-set name"),
@@ -188,7 +190,6 @@ def _molecule(r: _Reader, table: dict, folder: str) -> Any:
 
 
 def _pipeline(r: _Reader, molecule: Any, space: dict | None, components: dict) -> Any:
-    from groundkit.pipeline import Pipeline
 
     pipeline = Pipeline(molecule)
     if space is not None:
@@ -220,7 +221,6 @@ def _pipeline(r: _Reader, molecule: Any, space: dict | None, components: dict) -
 
 def _refused_key(name: Any, role: str, options: dict) -> str | None:
     """The first option key the named class does not take (for the line number), else None."""
-    from groundkit.registry import lookup
 
     try:
         accepted = lookup(role, name).accepted_options()

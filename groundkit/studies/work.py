@@ -22,10 +22,14 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from groundkit.adaptive import Adaptive, grown_sequence, grown_trial_state
 from groundkit.energy_surface import WarmStart, handover_kind
 from groundkit.errors import GroundkitError
 from groundkit.molecule import MoleculeSpec
 from groundkit.orbitals.continuity import active_overlap, casscf_guide, jump_message
+from groundkit.persistence import result_to_dict
+from groundkit.pipeline import Pipeline
+from groundkit.result import CHEMICAL_ACCURACY
 
 from .orbitals import Handover, OrbitalMatch, previous_match, warm_note
 
@@ -51,7 +55,6 @@ class Task:
 
 def pipeline_of(molecule: MoleculeSpec, components: dict[str, Any]) -> Pipeline:
     """A Pipeline for ``molecule`` with the given components (None keeps the default)."""
-    from groundkit.pipeline import Pipeline
 
     pipeline = Pipeline(molecule)
     for role in (*ROLES, "device"):
@@ -107,7 +110,6 @@ def _run_adaptive(pipeline: Pipeline, task: Task, answer: dict) -> RunResult:
 def growth_handover(pipeline: Pipeline, result: RunResult) -> dict[str, Any]:
     """The handover of an adaptive run: its grown sequence's objective's handover, plus the Pauli strings for a
     qubit pool (whose grown trial state is PauliRotations of them)."""
-    from groundkit.adaptive import grown_sequence, grown_trial_state
 
     grown = pipeline.trial_state(grown_trial_state(result)).objective()
     handover = grown.handover(result.parameters)
@@ -158,8 +160,6 @@ def run_task(task: Task) -> dict[str, Any]:
 
     A GroundkitError becomes ``error`` (``"ClassName: message"``); any other exception propagates, and so does
     a Ctrl-C, also when the minimiser caught it and stopped early (see the module docstring)."""
-    from groundkit.adaptive import Adaptive
-    from groundkit.persistence import result_to_dict
 
     started = time.perf_counter()
     answer: dict[str, Any] = {"result": None, "error": task.builder_error, "start": "cold", "orbital_match": None,
@@ -188,7 +188,6 @@ def _extra(pipeline: Pipeline, result: RunResult, name: str) -> int | None:
     if name == "shot_budget":
         if pipeline.resolved_components()["estimator"].exact:
             return None
-        from groundkit.result import CHEMICAL_ACCURACY
 
         try:
             return int(pipeline.shot_budget(precision=CHEMICAL_ACCURACY, parameters=result.parameters))

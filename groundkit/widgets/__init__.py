@@ -5,6 +5,8 @@ from __future__ import annotations
 
 from typing import Any
 
+from . import providers  # noqa: F401  (registers the displays that lower layers call through groundkit.upcalls)
+
 _LAZY = {
     "RunView": ("live", "RunView"),
     "Explorer": ("explorer", "Explorer"),
