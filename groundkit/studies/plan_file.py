@@ -159,7 +159,7 @@ def _candidates(r: _Reader, role: str, given: Any) -> list[Any]:
 def run_plan_file(study: PlanStudy, *, resume: bool = False, overwrite: bool = False,
                   progress: bool = True) -> str:
     """Run the plan file; returns the summary text (also written to ``summary.txt``)."""
-    from groundkit.widgets.plan_view import plan_html
+    from groundkit.upcalls import upcall
 
     from .planning import plan
 
@@ -189,7 +189,7 @@ def run_plan_file(study: PlanStudy, *, resume: bool = False, overwrite: bool = F
     result.save(os.path.join(out, "plan.json"))
     with open(os.path.join(out, "plan.html"), "w", encoding="utf-8") as fh:
         fh.write(f"<!DOCTYPE html><html><head><meta charset='utf-8'><title>{_escape(study.title)}</title></head>"
-                 f"<body><h2>{_escape(study.title)}</h2>{plan_html(result)}</body></html>\n")
+                 f"<body><h2>{_escape(study.title)}</h2>{upcall('html:plan', result)}</body></html>\n")
     text = f"{study.title}\n\n{result.summary()}\n"
     with open(os.path.join(out, "summary.txt"), "w", encoding="utf-8") as fh:
         fh.write(text)

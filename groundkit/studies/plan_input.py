@@ -110,10 +110,10 @@ def device_profile_class() -> Any:
 
 
 def noise_threshold_function() -> Any:
-    """``groundkit.noise_threshold``, or None when this groundkit has none yet."""
-    import groundkit
+    """``groundkit.noise_threshold`` (:mod:`groundkit.noise.threshold`)."""
+    from groundkit.noise.threshold import noise_threshold
 
-    return getattr(groundkit, "noise_threshold", None)
+    return noise_threshold
 
 
 def _as_device(value: Any) -> Any:

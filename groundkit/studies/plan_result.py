@@ -126,20 +126,20 @@ class PlanResult:
     def show(self) -> Any:
         """A notebook widget: frontier (cost against worst error, target line, recommended point labelled), the
         recommended configuration's curve against the exact reference and baselines, and the table."""
-        from groundkit.widgets.plan_view import plan_widget
+        from groundkit.upcalls import upcall
 
-        return plan_widget(self)
+        return upcall("show:plan", self)
 
     def plot(self, path: str) -> str:
         """Save the frontier and the recommended curve as a PNG at ``path``; returns the path."""
-        from groundkit.widgets.plan_view import save_plan_png
+        from groundkit.upcalls import upcall
 
-        return save_plan_png(self, path)
+        return upcall("png:plan", self, path)
 
     def _repr_html_(self) -> str:
-        from groundkit.widgets.plan_view import plan_html
+        from groundkit.upcalls import upcall
 
-        return plan_html(self)
+        return upcall("html:plan", self)
 
     def save(self, path: str) -> None:
         """Write the plan as JSON, atomically (schema 'groundkit.plan-result', version 1)."""

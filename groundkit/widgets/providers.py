@@ -63,3 +63,24 @@ def run_watched(pipeline: Any, callback: Any, **options: Any) -> Any:
     from .running import run_watched as run
 
     return run(pipeline, callback, **options)
+
+
+@provides("html:plan")
+def plan_html(plan: Any) -> str:
+    from .plan_view import plan_html as html
+
+    return html(plan)
+
+
+@provides("show:plan")
+def show_plan(plan: Any) -> Any:
+    from .plan_view import plan_widget
+
+    return plan_widget(plan)
+
+
+@provides("png:plan")
+def plan_png(plan: Any, path: Any) -> str:
+    from .plan_view import save_plan_png
+
+    return save_plan_png(plan, path)
