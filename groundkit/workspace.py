@@ -68,6 +68,7 @@ def measure(value: Any, stop: frozenset[int] | set[int] = frozenset()) -> int:
     counted. Each object is counted once. A container of more than :data:`SAMPLED_ITEMS` items is estimated from
     that many evenly spaced items, so measuring costs at most a few milliseconds."""
     seen: set[int] = set()
+    alive: list[Any] = []
     total = 0.0
     pending: list[tuple[Any, float]] = [(value, 1.0)]
     while pending:
@@ -75,14 +76,16 @@ def measure(value: Any, stop: frozenset[int] | set[int] = frozenset()) -> int:
         if id(obj) in seen or (id(obj) in stop and obj is not value) or isinstance(obj, _SKIP):
             continue
         seen.add(id(obj))
+        alive.append(obj)  # held until the walk ends, so no id in ``seen`` is reused by a new object
         if isinstance(obj, np.ndarray):
             base = obj
             while isinstance(base.base, np.ndarray):
                 base = base.base
+            # sys.getsizeof counts the header (about 100 B, which dominates for the many small arrays of
+            # measurement groups and tables) and, for an array owning its data, the data too; a view adds its base
+            total += weight * max(sys.getsizeof(obj), obj.nbytes if base is obj else 0)
             if base is not obj:
                 pending.append((base, weight))
-            else:
-                total += weight * obj.nbytes
             continue
         try:
             total += weight * sys.getsizeof(obj)
@@ -90,8 +93,8 @@ def measure(value: Any, stop: frozenset[int] | set[int] = frozenset()) -> int:
             pass
         if isinstance(obj, (str, bytes, bytearray, int, float, complex, bool, type(None))):
             continue
-        if isinstance(obj, dict):
-            items: Any = list(obj.items())
+        if isinstance(obj, dict):  # keys and values, never new (key, value) tuples: a temporary's id is reused
+            items: Any = [*obj.keys(), *obj.values()]
         elif isinstance(obj, (list, tuple)):
             items = obj
         elif isinstance(obj, (set, frozenset)):

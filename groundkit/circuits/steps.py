@@ -13,7 +13,7 @@ depends on the trial state's parameters (it may be a sympy expression); fixed ga
 from __future__ import annotations
 
 from collections.abc import Iterable, Sequence
-from functools import lru_cache
+from functools import cache
 from typing import Any, NamedTuple
 
 import cirq
@@ -47,8 +47,9 @@ def cz(a: int, b: int) -> Step:
     return Step("cz", (min(int(a), int(b)), max(int(a), int(b))))
 
 
-@lru_cache(maxsize=1024)
-def _fixed_matrix(gate: str, angle: float | None) -> np.ndarray:
+@cache
+def _constant_matrix(gate: str) -> np.ndarray:
+    """The 2x2 unitary of an angle-free gate (x, h, s, sdg); five entries at most, kept for the process."""
     if gate == "x":
         return np.array([[0, 1], [1, 0]], dtype=complex)
     if gate == "h":
@@ -57,8 +58,18 @@ def _fixed_matrix(gate: str, angle: float | None) -> np.ndarray:
         return np.diag([1, 1j])
     if gate == "sdg":
         return np.diag([1, -1j])
-    pauli = {"rx": np.array([[0, 1], [1, 0]]), "ry": np.array([[0, -1j], [1j, 0]]), "rz": np.diag([1, -1])}[gate]
-    return np.cos(angle / 2) * np.eye(2) - 1j * np.sin(angle / 2) * pauli
+    raise KeyError(gate)
+
+
+_PAULI = {"rx": np.array([[0, 1], [1, 0]]), "ry": np.array([[0, -1j], [1j, 0]]), "rz": np.diag([1, -1])}
+
+
+def _fixed_matrix(gate: str, angle: float | None) -> np.ndarray:
+    """The 2x2 unitary of a fixed step; rotations are computed each time (angles vary from run to run, so a cache
+    keyed by angle would only grow)."""
+    if gate in _PAULI:
+        return np.cos(angle / 2) * np.eye(2) - 1j * np.sin(angle / 2) * _PAULI[gate]
+    return _constant_matrix(gate)
 
 
 def matrix(step: Step) -> np.ndarray | None:

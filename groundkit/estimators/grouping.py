@@ -9,7 +9,6 @@ operator.
 
 from __future__ import annotations
 
-import weakref
 from typing import Any, ClassVar
 
 from openfermion import QubitOperator
@@ -51,14 +50,11 @@ def grouping_names() -> tuple[str, ...]:
     return names("grouping")
 
 
-_CACHE: weakref.WeakKeyDictionary[Any, dict[str, tuple[float, list]]] = weakref.WeakKeyDictionary()
-
-
 def groups_for(encoding: Any, grouping: Any) -> tuple[float, list]:
-    """(identity coefficient, groups) of ``encoding``'s Hamiltonian under ``grouping`` (cached per encoding)."""
+    """(identity coefficient, groups) of ``encoding``'s Hamiltonian under ``grouping`` (kept in the workspace,
+    kind ``measurement groups``, owned by the encoding)."""
+    from ..workspace import workspace
+
     chosen = as_grouping(grouping)
-    key = repr(chosen)
-    cache = _CACHE.setdefault(encoding, {})
-    if key not in cache:
-        cache[key] = chosen.groups(encoding)
-    return cache[key]
+    return workspace().fetch("measurement groups", (id(encoding), repr(chosen)), lambda: chosen.groups(encoding),
+                             owner=encoding)
