@@ -225,10 +225,13 @@ def test_a_small_budget_bounds_the_memory_of_a_sequence_of_runs_and_changes_no_n
 
 def test_a_value_inside_a_dict_is_measured_in_full():
     # a dict's (key, value) pairs were temporaries whose ids were reused, so values went uncounted (seen with a
-    # qubit Hamiltonian: 89 kB alone, 0.4 kB inside a dict); sys.getsizeof of the parts is the outside measure
-    from groundkit.workspace import measure
+    # qubit Hamiltonian: 89 kB alone, 0.4 kB inside a dict); OpenFermion's QubitOperator is the outside object
+    from openfermion import QubitOperator
 
-    big = {f"term {k}": np.arange(50, dtype=float) for k in range(200)}
-    alone = measure(big)
-    assert alone >= 200 * np.arange(50, dtype=float).nbytes  # NumPy nbytes of the arrays it holds
-    assert measure({"a": big}) >= alone and measure([big]) >= alone and measure({"a": {"b": big}}) >= alone
+    hamiltonian = QubitOperator()
+    for k in range(300):
+        hamiltonian += QubitOperator(((k % 7, "X"), (k % 7 + 1 + k % 5, "Z"), (20 + k, "Y")), 0.1 + k)
+    alone = measure(hamiltonian)
+    assert alone >= 300 * sys.getsizeof(0.1j)  # at least its 300 coefficients (sys.getsizeof)
+    for holder in ({"a": hamiltonian}, [hamiltonian], {"a": {"b": hamiltonian}}):
+        assert measure(holder) >= 0.9 * alone, (measure(holder), alone)
