@@ -81,16 +81,21 @@ def main(argv: list[str] | None = None) -> int:
         print(f"groundkit: interrupted{where}", file=sys.stderr)
         return INTERRUPTED
     except Exception as err:  # a bug: say so, keep the traceback, and exit with its own status
-        report = traceback.format_exc()
-        saved = _save_report(report, None if study is None else os.path.join(study.output, CRASH_REPORT))
-        print(report, file=sys.stderr, end="")
-        print(f"groundkit: crashed (a bug in groundkit, please report it): {type(err).__name__}: {err}"
-              + (f"; traceback saved in {saved}" if saved else ""), file=sys.stderr)
-        return CRASHED
+        return _crashed(err, None if study is None else os.path.join(study.output, CRASH_REPORT))
     if not args.quiet:
         print(text)
         print(f"written to {study.output}")
     return FAILED_POINTS if failed else DONE
+
+
+def _crashed(err: Exception, path: str | None) -> int:
+    """Print the traceback of a bug and save it at ``path`` (if writable); the crash exit status."""
+    report = traceback.format_exc()
+    saved = _save_report(report, path)
+    print(report, file=sys.stderr, end="")
+    print(f"groundkit: crashed (a bug in groundkit, please report it): {type(err).__name__}: {err}"
+          + (f"; traceback saved in {saved}" if saved else ""), file=sys.stderr)
+    return CRASHED
 
 
 def _save_report(report: str, path: str | None) -> str | None:
@@ -122,12 +127,7 @@ def _plan(args: argparse.Namespace) -> int:
         print(f"groundkit: interrupted{where}", file=sys.stderr)
         return INTERRUPTED
     except Exception as err:  # a bug: say so, keep the traceback
-        report = traceback.format_exc()
-        saved = _save_report(report, None if study is None else os.path.join(study.output, "crash-traceback.txt"))
-        print(report, file=sys.stderr, end="")
-        print(f"groundkit: crashed (a bug in groundkit, please report it): {type(err).__name__}: {err}"
-              + (f"; traceback saved in {saved}" if saved else ""), file=sys.stderr)
-        return CRASHED
+        return _crashed(err, None if study is None else os.path.join(study.output, "crash-traceback.txt"))
     if not args.quiet:
         print(text)
         print(f"written to {study.output}")

@@ -162,31 +162,30 @@ def determinant_energy_from_density(scf: ScfSolution, mo_coeff: np.ndarray, n_do
     An independent route to the energy that the active-space integrals give the same determinant (AO-basis
     Coulomb and exchange instead of transformed MO integrals); for the SCF orbitals it is the SCF energy.
     """
-    from pyscf import scf as pyscf_scf
-
-    c = np.asarray(mo_coeff, dtype=float)
-    mol = scf._mf.mol
-    d_alpha = c[:, :n_doubly + n_singly] @ c[:, :n_doubly + n_singly].T
-    d_beta = c[:, :n_doubly] @ c[:, :n_doubly].T
+    uhf, dm, _ = _determinant(scf, mo_coeff, n_doubly, n_singly)
     with scf_threads():
-        uhf = pyscf_scf.UHF(mol)
-        uhf.verbose = 0
-        return float(uhf.energy_tot(dm=np.array([d_alpha, d_beta])))
+        return float(uhf.energy_tot(dm=dm))
 
 
 def reference_fock(scf: ScfSolution, mo_coeff: np.ndarray, n_doubly: int, n_singly: int) -> np.ndarray:
     """The spin-averaged Fock matrix (Ha) of that determinant in the basis of ``mo_coeff``, (n_mo, n_mo)."""
+    uhf, dm, c = _determinant(scf, mo_coeff, n_doubly, n_singly)
+    with scf_threads():
+        fock = uhf.get_fock(dm=dm)
+    return c.T @ (0.5 * (fock[0] + fock[1])) @ c
+
+
+def _determinant(scf: ScfSolution, mo_coeff: np.ndarray, n_doubly: int, n_singly: int) -> tuple[Any, np.ndarray,
+                                                                                                    np.ndarray]:
+    """(a quiet PySCF UHF on the molecule, the determinant's (alpha, beta) AO densities, the orbitals as floats)."""
     from pyscf import scf as pyscf_scf
 
     c = np.asarray(mo_coeff, dtype=float)
-    mol = scf._mf.mol
     d_alpha = c[:, :n_doubly + n_singly] @ c[:, :n_doubly + n_singly].T
     d_beta = c[:, :n_doubly] @ c[:, :n_doubly].T
-    with scf_threads():
-        uhf = pyscf_scf.UHF(mol)
-        uhf.verbose = 0
-        fock = uhf.get_fock(dm=np.array([d_alpha, d_beta]))
-    return c.T @ (0.5 * (fock[0] + fock[1])) @ c
+    uhf = pyscf_scf.UHF(scf._mf.mol)
+    uhf.verbose = 0
+    return uhf, np.array([d_alpha, d_beta]), c
 
 
 def state_densities(ci: np.ndarray, n_orbitals: int, n_alpha: int, n_beta: int) -> tuple[np.ndarray, np.ndarray]:
