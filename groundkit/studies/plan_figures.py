@@ -147,19 +147,15 @@ def noise_figure(pipeline: Any, device: Any, mitigation: Any, target: float, the
     from types import SimpleNamespace
 
     from groundkit.adaptive import Adaptive
+    from groundkit.noise.threshold import noise_threshold
 
-    from .plan_input import noise_threshold_function
-
-    function = noise_threshold_function()
-    if function is None:
-        return [None, "not available: this groundkit has no noise threshold yet (groundkit.noise_threshold)"]
     options: dict[str, Any] = {}
     if theta is not None and not isinstance(pipeline.resolved_components()["trial_state"], Adaptive):
         options["result"] = SimpleNamespace(parameters=np.asarray(theta, dtype=float), growth=None,
                                             exact_energy=None)
     try:
-        value = function(on_device(pipeline, device), target=target,
-                         mitigation=() if mitigation is None else mitigation, **options)
+        value = noise_threshold(on_device(pipeline, device), target=target,
+                                mitigation=() if mitigation is None else mitigation, **options)
     except GroundkitError as err:
         return [None, f"{type(err).__name__}: {err}"]
     number = value if isinstance(value, numbers.Real) else next(

@@ -1,9 +1,8 @@
 """What a plan is asked: the geometries of the curve, the choices to cross per role, and the limits.
 
 Every refusal is a :class:`PlanInputError` (a ``ScanInputError``, so a ``ValueError``) naming the bad value and
-what is accepted. Pieces that later groundkit releases add (device profiles, groupings by name, the noise
-threshold) are looked up here when asked for, never at import, so a plan works before they exist and says which
-piece is missing when a choice needs it.
+what is accepted. Device profiles, groupings and mitigations are checked against the registry
+(:mod:`groundkit.registry`), the way every component name is.
 """
 
 from __future__ import annotations
@@ -15,6 +14,7 @@ from dataclasses import dataclass, fields
 from typing import Any
 
 from groundkit import components as _c
+from groundkit.estimators.grouping import grouping_names
 from groundkit.molecule import MoleculeSpec
 
 from .errors import ScanInputError
@@ -86,47 +86,8 @@ def _short(value: Any) -> str:
     return text if len(text) <= 80 else text[:77] + "..."
 
 
-def grouping_names() -> tuple[str, ...]:
-    """The measurement groupings this groundkit knows: a registered ``grouping`` role when there is one, else the
-    estimators' built-in list."""
-    from groundkit import registry
-
-    try:
-        names = registry.names("grouping")
-    except Exception:  # no such role in this release: the estimators' own list
-        names = ()
-    if names:
-        return tuple(names)
-    from groundkit.estimators.groups import GROUPINGS
-
-    return tuple(GROUPINGS)
-
-
-def device_profile_class() -> Any:
-    """``groundkit.device.DeviceProfile``, or None when this groundkit has no device profiles yet."""
-    import groundkit.device as device
-
-    return getattr(device, "DeviceProfile", None)
-
-
-def noise_threshold_function() -> Any:
-    """``groundkit.noise_threshold`` (:mod:`groundkit.noise.threshold`)."""
-    from groundkit.noise.threshold import noise_threshold
-
-    return noise_threshold
-
-
 def _as_device(value: Any) -> Any:
-    if value is None:
-        return None
-    profile = device_profile_class()
-    if profile is None:
-        raise PlanInputError(f"device {_short(value)}: this groundkit has no device profiles yet "
-                             "(groundkit.device.DeviceProfile is missing); leave 'device' out to cost the logical "
-                             "circuit with the default gate durations")
-    if isinstance(value, profile):
-        return value
-    return _c.as_component("device", value)
+    return None if value is None else _c.as_component("device", value)
 
 
 def _as_grouping(value: Any) -> str:

@@ -6,7 +6,7 @@ from __future__ import annotations
 import pytest
 
 import groundkit as gk
-from groundkit.studies.plan_input import PlanLimits, device_profile_class, plan_choices, plan_limits
+from groundkit.studies.plan_input import PlanLimits, plan_choices, plan_limits
 from tests.studies.helpers import h2
 
 GEOMETRIES = (gk.BondStretch(h2(0.74)), [0.74, 1.0])
@@ -79,11 +79,10 @@ def test_bad_target(target):
         gk.plan(GEOMETRIES, {"trial_state": ["uccsd"]}, target=target)
 
 
-def test_devices_before_device_profiles_exist():
-    if device_profile_class() is not None:
-        pytest.skip("this groundkit has device profiles (issue 15); the refusal below no longer applies")
-    with pytest.raises(gk.PlanInputError, match="no device profiles yet"):
+def test_an_unknown_device_name_is_refused_with_the_registered_ones():
+    with pytest.raises(gk.PlanInputError, match="line-5") as refusal:
         plan_choices({"device": ["line-5"]})
+    assert "grid-4x4" in str(refusal.value)  # the refusal lists the registered device names
 
 
 def test_choices_and_limits_accepted_forms():
