@@ -1,5 +1,4 @@
-"""The one place the noisy estimator looks at a pipeline's device profile (imported lazily, so this module works
-whether or not device profiles exist in this build).
+"""The one place the noisy estimator looks at a pipeline's device profile.
 
 With ``pipeline.device_profile`` set (a profile with ``.errors: ErrorFigures`` and ``.durations: GateDurations``),
 the noise comes from the profile and the circuit is the routed native one, ``pipeline.circuit(θ)`` (a device
