@@ -629,6 +629,13 @@ def check_problem(molecule: Any, active_space: Any) -> None:
     """Before the SCF: the SCF and the active-space integrals must fit the limits."""
     estimate = estimate_for(molecule, active_space)
     refuse(molecule, estimate, ("scf", "integrals"), f"{molecule.formula}/{molecule.basis}")
+    w = estimate.window
+    if getattr(active_space, "orbital_set", "canonical") == "casscf" and w is not None:
+        from .orbitals import cost
+
+        memory, seconds = cost.casscf_cost(estimate.n_ao, w.n_orbitals, w.n_alpha, w.n_beta)
+        cost.refuse_if_over(f"CASSCF orbitals in {w} for {molecule.formula}/{molecule.basis}", memory, seconds,
+                            "choose a smaller active space or orbital_set='mp2-natural'")
 
 
 def check_reference(n_orbitals: int, n_alpha: int, n_beta: int) -> None:

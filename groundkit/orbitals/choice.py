@@ -11,14 +11,11 @@ SCF solution (per set and frozen list). docs/orbitals.md says which to choose.
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from math import comb
 
 import numpy as np
 
-from .. import sizing
 from ..chemistry import ScfSolution
-from ..errors import SizeLimitError
-from . import solvers
+from . import cost, solvers
 
 ORBITAL_SETS = ("canonical", "mp2-natural", "ccsd-natural", "casscf")
 LABELS = {"canonical": "canonical Hartree–Fock orbitals", "mp2-natural": "MP2 natural orbitals",
@@ -26,8 +23,6 @@ LABELS = {"canonical": "canonical Hartree–Fock orbitals", "mp2-natural": "MP2 
           "optimised": "orbitals optimised with the trial state"}
 OCCUPATION_LABELS = {"canonical": "MP2 NO occ", "mp2-natural": "MP2 NO occ", "ccsd-natural": "CCSD NO occ",
                      "casscf": "CAS NO occ", "optimised": "NO occ"}
-CCSD_SECONDS_PER_FLOP = 2e-9  # rough: PySCF's CCSD on this 2-core machine, o^2 v^4 operations per iteration
-CCSD_ITERATIONS = 20  # typical iterations of a CCSD that converges
 
 
 @dataclass(frozen=True, eq=False)
@@ -69,18 +64,9 @@ def check_ccsd_affordable(scf: ScfSolution, frozen: list[int]) -> None:
     n_mo = scf.n_orbitals - len(frozen)
     occupied = scf.n_doubly_occupied + scf.n_singly_occupied - len(frozen)
     virtual = n_mo - scf.n_doubly_occupied + len(frozen)
-    memory = 8.0 * (comb(n_mo + 1, 2) ** 2 + 4 * occupied**2 * virtual**2)
-    seconds = CCSD_ITERATIONS * CCSD_SECONDS_PER_FLOP * occupied**2 * virtual**4
-    limit = sizing.limits.memory_limit()
-    problems = []
-    if limit is not None and memory > limit:
-        problems.append(f"its integrals and amplitudes need {sizing.format_bytes(memory)}, above the memory limit "
-                        f"of {sizing.format_bytes(limit)}")
-    if sizing.limits.scf_seconds is not None and seconds > sizing.limits.scf_seconds:
-        problems.append(f"it would take ~{sizing.format_seconds(seconds)}, above limits.scf_seconds")
-    if problems:
-        raise SizeLimitError("CCSD natural orbitals refused: " + "; ".join(problems)
-                             + "; use orbital_set='mp2-natural' (same ranking idea, far cheaper)")
+    memory, seconds = cost.ccsd_cost(n_mo, occupied, virtual)
+    cost.refuse_if_over(f"CCSD natural orbitals ({occupied} occupied, {virtual} virtual orbitals)", memory, seconds,
+                        "use orbital_set='mp2-natural' (same ranking idea, far cheaper)")
 
 
 @dataclass(frozen=True, eq=False)
@@ -107,6 +93,10 @@ def casscf_orbitals(scf: ScfSolution, core: list[int], active: list[int], n_alph
     store = scf._mf.__dict__.setdefault("_groundkit_casscf", {})
     key = (tuple(core), tuple(active), n_alpha, n_beta, None if start is None else first.tobytes())
     if key not in store:
+        memory, seconds = cost.casscf_cost(scf.mo_coeff.shape[0], len(active), n_alpha, n_beta)
+        cost.refuse_if_over(f"CASSCF orbitals in ({n_alpha + n_beta}e, {len(active)}o)", memory, seconds,
+                            "choose a smaller active space or orbital_set='mp2-natural'")
+
         def more_starts() -> list[tuple[str, np.ndarray]]:
             natural = orbital_basis("mp2-natural", scf, [])
             return [("MP2 natural orbitals of the same window", natural.mo_coeff)]
