@@ -53,7 +53,7 @@ def qubit_double(annihilated: Sequence[int], created: Sequence[int], angle: floa
     r1, r2 = (int(q) for q in annihilated)
     p1, p2 = (int(q) for q in created)
     target, controls, pattern = r1, (r2, p1, p2), (0, 1, 1)
-    move = [cnot(target, q) for q in controls]
+    move = [cnot(target, q) for q in (p1, p2, r2)]  # commuting; p1, p2 first so a neighbour's undo cancels them
     flips = [cz(s, target) for s in parity]  # Z on r1 flips the generator's sign; outside the move
     # in the moved frame the pair is |t=1, w⟩ (the occupied side) and |t=0, w⟩; Ry(−2θ)|1⟩ = cos θ|1⟩ + sin θ|0⟩
     rotation: list[Step] = []
