@@ -15,13 +15,13 @@ Yordanov et al. add that parity with CNOT ladders. Our constructions (checked ag
   two-qubit part has two non-zero Cartan coefficients, so two CNOTs are the fewest (Shende, Markov and
   Bullock, Phys. Rev. A 69, 062321 (2004), from memory). Parity: one CZ(s, a) per
   spin orbital s in S before and after (Z_a flips the rotation's sign): 2 + 2|S| two-qubit gates.
-- **double** (14 CNOTs): three CNOTs from r1 move the pair onto a single qubit (r1) with the other three fixed at
-  (0, 1, 1); an eight-fold uniformly controlled Ry (Gray-code order, angles ±θ/4) rotates r1 only under that
-  pattern; three CNOTs undo the move. Parity: one CNOT(s→r1) per s in S on each side of the rotation (X on the
-  target flips the Ry's sign): 14 + 2|S|. The paper states 13 CNOTs for the double; we did not reach 13 within
-  this family (breadth-first searches over every 4-qubit CNOT network, and over Clifford frames that diagonalise
-  the generator's eight Pauli strings at once followed by any CNOT phase network, found 14 as the fewest), so the
-  count here is 14, one more than published.
+- **double** (13 two-qubit gates, the published count): three CNOTs from r1 move the pair onto a single qubit
+  (r1) with the other three fixed at (0, 1, 1); an eight-fold uniformly controlled Ry (Gray-code order, angles
+  ±θ/4, CZ entanglers) rotates r1 only under that pattern; three CNOTs undo the move. The last CZ(r2, r1) and
+  the undo's CNOT(r1→r2) share the control r1 and merge into S†_r1·CY(r1→r2), one CNOT: 3 + 8 + 3 − 1 = 13.
+  Parity: one CZ(s, r1) per s in S before and after the whole (Z_r1 flips the generator's sign): 13 + 2|S|.
+  Within circuits of CNOTs and Ry's alone a breadth-first search over all 4-qubit CNOT frames gives 14 as the
+  fewest; the merge needs the CZ/CY (S-gate) freedom.
 """
 
 from __future__ import annotations
@@ -53,15 +53,21 @@ def qubit_double(annihilated: Sequence[int], created: Sequence[int], angle: floa
     r1, r2 = (int(q) for q in annihilated)
     p1, p2 = (int(q) for q in created)
     target, controls, pattern = r1, (r2, p1, p2), (0, 1, 1)
-    move = [cnot(target, q) for q in controls]
-    flips = [cnot(s, target) for s in parity]
+    move = [cnot(target, q) for q in (p1, p2, r2)]  # commuting; p1, p2 first so a neighbour's undo cancels them
+    flips = [cz(s, target) for s in parity]  # Z on r1 flips the generator's sign; outside the move
     # in the moved frame the pair is |t=1, w⟩ (the occupied side) and |t=0, w⟩; Ry(−2θ)|1⟩ = cos θ|1⟩ + sin θ|0⟩
     rotation: list[Step] = []
     for frame, flip in zip(_FRAMES, _GRAY_FLIPS):
         sign = (-1) ** sum(pattern[k] for k in frame)
         rotation.append(one("ry", target, sign * (-2.0 * angle) / 8.0, variable))
-        rotation.append(cnot(controls[flip], target))
-    return move + flips + rotation + flips[::-1] + move[::-1]
+        rotation.append(cz(controls[flip], target))
+    # CZ entanglers (Z on the target, like X, flips the Ry's sign, so the Gray-code frames keep their signs); the
+    # last one, CZ(r2, t)
+    # then CNOT(t→r2) of the undo is |1⟩⟨1|_t ⊗ X·Z = S†_t · CY(t→r2): one CNOT with S gates (13 in all)
+    assert _GRAY_FLIPS[-1] == 0
+    merged = [one("sdg", r2), cnot(target, r2), one("s", r2), one("sdg", target)]
+    undo = [cnot(target, p2), cnot(target, p1)]
+    return flips + move + rotation[:-1] + merged + undo + flips[::-1]
 
 
 def _apply(term: tuple[tuple[int, int], ...], occupied: set[int]) -> int:

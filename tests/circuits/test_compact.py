@@ -52,14 +52,13 @@ def test_qubit_single_is_the_exponential_and_has_two_cnots(a, c, n):
 @pytest.mark.parametrize(("r", "p", "n"), [((0, 1), (2, 3), 4), ((2, 3), (0, 1), 4), ((0, 3), (1, 4), 5),
                                            ((4, 1), (0, 2), 5)])
 def test_qubit_double_is_the_exponential(r, p, n):
-    theta = -0.417
     tau = _on(n, {p[0]: LOWER.T, p[1]: LOWER.T}) @ _on(n, {r[0]: LOWER, r[1]: LOWER})
-    exact = scipy.linalg.expm(theta * (tau - tau.T))
-    steps = qubit_double(r, p, theta)
-    assert _same_up_to_phase(_unitary(steps, n), exact)
-    # Yordanov et al. (2020) state 13 CNOTs for the double qubit excitation; our construction (three-CNOT move,
-    # eight-CNOT Gray-code rotation, undo) has 14: one above the published count, see compact.py
-    assert _two_qubit(steps) == 14
+    for theta in (-0.417, 0.05, 1.3, -2.9):
+        exact = scipy.linalg.expm(theta * (tau - tau.T))
+        steps = qubit_double(r, p, theta)
+        assert _same_up_to_phase(_unitary(steps, n), exact)
+        # Yordanov, Arvidsson-Shukur and Barnes, PRA 102, 062612 (2020): 13 CNOTs for the double qubit excitation
+        assert _two_qubit(steps) == 13
 
 
 def _fermionic_exponential(creators, annihilators, theta, n):
@@ -76,19 +75,19 @@ DOUBLES = [((2, 3), (0, 1)), ((0, 1), (2, 3)), ((4, 5), (0, 1)), ((5, 2), (0, 3)
 
 @pytest.mark.parametrize(("creators", "annihilators"), SINGLES + DOUBLES)
 def test_jordan_wigner_excitation_is_the_exponential(creators, annihilators):
-    theta = 0.613
     n = max(creators + annihilators) + 1
-    steps = jordan_wigner_excitation(creators, annihilators, theta)
-    assert _same_up_to_phase(_unitary(steps, n), _fermionic_exponential(creators, annihilators, theta, n))
-    # parity: one two-qubit gate per crossed spin orbital on each side of the qubit excitation
     _, crossed = jordan_wigner_sign(creators, annihilators)
-    assert _two_qubit(steps) == (2 if len(creators) == 1 else 14) + 2 * len(crossed)
+    for theta in (0.613, -1.7, 2.4):
+        steps = jordan_wigner_excitation(creators, annihilators, theta)
+        assert _same_up_to_phase(_unitary(steps, n), _fermionic_exponential(creators, annihilators, theta, n))
+        # parity: one two-qubit gate per crossed spin orbital on each side of the qubit excitation
+        assert _two_qubit(steps) == (2 if len(creators) == 1 else 13) + 2 * len(crossed)
 
 
 def test_adjacent_excitations_need_no_parity():
     # four adjacent spin orbitals: no Jordan-Wigner string crosses a spin orbital outside the excitation
     assert jordan_wigner_sign((2, 3), (0, 1))[1] == ()
-    assert _two_qubit(jordan_wigner_excitation((2, 3), (0, 1), 0.2)) == 14  # published 13 (Yordanov et al.)
+    assert _two_qubit(jordan_wigner_excitation((2, 3), (0, 1), 0.2)) == 13  # published 13 (Yordanov et al. 2020)
     assert _two_qubit(jordan_wigner_excitation((1,), (0,), 0.2)) == 2  # published 2 (Yordanov et al.)
 
 
@@ -117,3 +116,14 @@ def test_encoding_network_applies_the_matrix(name, n):
 def test_singular_matrix_is_refused():
     with pytest.raises(ComponentError, match="singular"):
         encoding_network(np.array([[1, 1], [1, 1]]))
+
+
+def test_adjacent_double_keeps_thirteen_cnots_after_cirq_optimisation():
+    from groundkit.circuits.optimise import optimise_circuit
+
+    qubits = cirq.LineQubit.range(4)
+    for steps in (qubit_double((0, 1), (2, 3), 0.37), jordan_wigner_excitation((2, 3), (0, 1), 0.37)):
+        circuit = optimise_circuit(cirq.Circuit(operations(steps, qubits)))
+        # Yordanov, Arvidsson-Shukur and Barnes, PRA 102, 062612 (2020): 13 CNOTs on four adjacent qubits
+        assert sum(1 for op in circuit.all_operations() if cirq.num_qubits(op) == 2) == 13
+        assert _same_up_to_phase(cirq.unitary(circuit), _unitary(steps, 4))
