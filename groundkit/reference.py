@@ -6,7 +6,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .sector.strings import determinant_label, interleaved_signs, make_strings
+from .occupation_strings import determinant_label, interleaved_signs, make_strings
 
 AMPLITUDE_CUTOFF = 1e-10  # weights |c|^2 below this are left out of ``amplitudes``
 MAX_AMPLITUDES = 10_000  # at most this many determinants in ``amplitudes``; the full vector is ``ci``

@@ -11,9 +11,8 @@ from typing import Any
 
 import numpy as np
 
+from .accuracy import CHEMICAL_ACCURACY  # re-exported: gk.CHEMICAL_ACCURACY, groundkit.result.CHEMICAL_ACCURACY
 from .upcalls import upcall
-
-CHEMICAL_ACCURACY = 1.6e-3  # Hartree (1 kcal/mol = 1.5936 mHa); common practice, no single source
 
 VERDICT_WORDING = {
     "within": "within chemical accuracy",

@@ -13,7 +13,7 @@ from typing import Any
 
 import numpy as np
 
-from ..result import CHEMICAL_ACCURACY
+from ..accuracy import CHEMICAL_ACCURACY
 from .device_circuit import DeviceCircuit
 from .timing import energy_seconds
 
