@@ -1,6 +1,6 @@
 """Estimators: how an energy is obtained from a trial state (exact, sampled, noisy) and what it costs in shots."""
 
-from . import basis_rotation, pauli_groupings  # noqa: F401  (register the built-in groupings)
+from . import basis_rotation, overlapped, pauli_groupings  # noqa: F401  (register the built-in groupings)
 from .base import Estimator, Measurement
 from .budget import compare_measurements, shot_budget
 from .exact import ExactEstimator

@@ -56,7 +56,7 @@ def _shuffled(operator: QubitOperator, seed: int) -> QubitOperator:
     return out
 
 
-@pytest.mark.parametrize("grouping", ["qwc", "qwc-term-order", "commuting", "none"])
+@pytest.mark.parametrize("grouping", ["qwc", "qwc-term-order", "commuting", "none", "commuting-overlap"])
 def test_groups_ignore_insertion_order_and_round_off(lih, grouping):
     encoding = lih.pipeline().active_space(electrons=2, orbitals=4).encoding()
     reference = measurement_groups(encoding.hamiltonian, encoding.n_qubits, grouping)[1]

@@ -19,7 +19,8 @@ def lih_point():
     return pipeline, theta, objective.energy(theta)
 
 
-@pytest.mark.parametrize("grouping", ["qwc", "qwc-term-order", "commuting", "basis-rotation"])
+@pytest.mark.parametrize("grouping", ["qwc", "qwc-term-order", "commuting", "basis-rotation", "qwc-overlap",
+                                      "commuting-overlap"])
 @pytest.mark.parametrize("allocation", ["variance", "uniform"])
 def test_unbiased_and_honest_for_every_grouping(lih_point, grouping, allocation):
     pipeline, theta, exact = lih_point
@@ -31,7 +32,7 @@ def test_unbiased_and_honest_for_every_grouping(lih_point, grouping, allocation)
     assert spread == pytest.approx(errors.mean(), rel=0.3)  # reported error matches the spread
 
 
-@pytest.mark.parametrize("grouping", ["qwc", "commuting", "basis-rotation"])
+@pytest.mark.parametrize("grouping", ["qwc", "commuting", "basis-rotation", "commuting-overlap"])
 def test_predicted_budget_delivers_its_precision(lih_point, grouping):
     # N = (sum_g sigma_g)^2 / eps^2 with exact group covariances (Rubin, Babbush, McClean, NJP 20, 053020 (2018))
     pipeline, theta, _ = lih_point
