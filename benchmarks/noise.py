@@ -13,7 +13,7 @@ a table of noise thresholds per configuration.
 
 The figures are illustrative: a model of depolarising, relaxation and readout errors with made-up rates, in a
 minimal basis; they describe no particular device. Run: ``OPENBLAS_NUM_THREADS=1 python benchmarks/noise.py``
-(prints tables; nothing is asserted). ``--part 1``, ``2`` or ``3`` runs one part.
+(prints tables; nothing is asserted). ``--part 1``, ``2`` or ``3`` runs one part; ``--molecule LiH`` limits part 3.
 """
 
 from __future__ import annotations
@@ -77,7 +77,7 @@ def part_zne() -> None:
     print()
 
 
-def part_thresholds() -> None:
+def part_thresholds(only: tuple[str, ...] = ()) -> None:
     configurations = {
         "H2": diatomic("H", "H", 0.7414).pipeline(),
         "LiH (2e,4o)": diatomic("Li", "H", 1.5949).pipeline().active_space(electrons=2, orbitals=4),
@@ -90,6 +90,8 @@ def part_thresholds() -> None:
     print(f"{'molecule':<15}{'trial state':<15}{'error/mHa':>10}" + "".join(f"{m:>11}" for m in mitigations)
           + f"{'time/s':>8}")
     for name, pipeline in configurations.items():
+        if only and not any(name.lower().startswith(o.lower()) for o in only):
+            continue
         for label, trial_state in trial_states.items():
             start = time.perf_counter()
             variant = pipeline.trial_state(trial_state)
@@ -108,7 +110,9 @@ def part_thresholds() -> None:
 if __name__ == "__main__":
     parser = argparse.ArgumentParser()
     parser.add_argument("--part", type=int, choices=(1, 2, 3))
-    part = parser.parse_args().part
-    for k, run in ((1, part_16_qubits), (2, part_zne), (3, part_thresholds)):
-        if part in (None, k):
+    parser.add_argument("--molecule", action="append", default=[],
+                        help="part 3 only for molecules whose name starts with this (repeatable: H2, LiH, water)")
+    args = parser.parse_args()
+    for k, run in ((1, part_16_qubits), (2, part_zne), (3, lambda: part_thresholds(tuple(args.molecule)))):
+        if args.part in (None, k):
             run()

@@ -18,6 +18,8 @@ from .live import RunView
 
 _WIDE = {"description_width": "120px"}
 _LOGICAL = "logical"  # the device selector's value for the logical all-to-all register (no device)
+_MITIGATIONS = [("none", ()), ("readout", ("readout",)), ("zero-noise extrapolation", ("zne",)),
+                ("symmetry verification", ("symmetry",))]
 
 
 def _listed(role: str) -> list[tuple[str, Any]]:
@@ -113,6 +115,10 @@ class Explorer(widgets.VBox):
         self.device = widgets.Dropdown(options=device_options,
                                        value=_chosen(device_options, own["device"] or _LOGICAL),
                                        description="device", style=_WIDE)
+        self.tolerance = widgets.Checkbox(value=False, description="noise threshold after each run (slower)",
+                                          style={"description_width": "initial"})
+        self.tolerance_mitigation = widgets.Dropdown(options=_MITIGATIONS, value=(), description="mitigation",
+                                                     style=_WIDE)
         self.run_button = widgets.Button(description="Run this configuration", button_style="primary",
                                          icon="play", layout=widgets.Layout(width="220px"))
         self.run_button.on_click(self.run)
@@ -127,6 +133,7 @@ class Explorer(widgets.VBox):
             widgets.HBox([self.estimator, self.shots, self.seed]),
             self.minimiser,
             self.device,
+            widgets.HBox([self.tolerance, self.tolerance_mitigation]),
             widgets.HBox([self.run_button, self.message]),
         ])
         super().__init__([selectors, self.view_area, widgets.HTML("<b>Runs so far</b>"), self.table_area])
@@ -197,11 +204,31 @@ class Explorer(widgets.VBox):
             return None
         finally:
             self.run_button.disabled = False
+        row = self._row(pipeline, result, elapsed)
+        if self.tolerance.value:
+            self.message.value = self._note("finding the noise threshold…", palette.GREY)
+            row.update(self._threshold(pipeline, result))
         self.results.append(result)
-        self.rows.append(self._row(pipeline, result, elapsed))
+        self.rows.append(row)
         self.table_area.value = self._table_html()
         self.message.value = self._note(f"run {len(self.rows)} added to the table", palette.GREEN, "Done — ")
         return result
+
+    def _threshold(self, pipeline: Any, result: Any) -> dict[str, Any]:
+        """The noise-threshold cells of a row (opt-in: it costs several noisy evaluations); a refusal becomes
+        the note, so the run still joins the table."""
+        from ..noise.threshold import noise_threshold
+
+        mitigation = self.tolerance_mitigation.value
+        label = self.tolerance_mitigation.label
+        try:
+            found = noise_threshold(pipeline, result=result, mitigation=mitigation, tolerance=0.5,
+                                    seed=int(self.seed.value))
+        except Exception as err:  # the run stands; the cell says why there is no threshold
+            return {"threshold_two_qubit": None, "threshold_mitigation": label,
+                    "threshold_note": f"{type(err).__name__}: {err}"}
+        return {"threshold_two_qubit": found.two_qubit, "threshold_mitigation": label,
+                "threshold_note": found.reason or found.confidence}
 
     @property
     def table(self) -> Any:
@@ -230,7 +257,8 @@ class Explorer(widgets.VBox):
             return "<div style='font-family:sans-serif;color:#555'>No runs yet: choose a configuration and run.</div>"
         header = ["run", "active space", "mapping", "trial state", "estimator", "minimiser", "energy / Ha",
                   "error / mHa", "verdict", "qubits", "parameters", "2-qubit gates", "groups", "iterations",
-                  "time / s", "device", "logical 2-qubit gates", "SWAPs", "device s / energy"]
+                  "time / s", "device", "logical 2-qubit gates", "SWAPs", "device s / energy",
+                  "noise threshold (2-qubit rate)"]
         body = []
         for row in self.rows:
             error = f"{row['error_mha']:+.3f}" + (f" ± {row['standard_error_mha']:.3f}"
@@ -242,9 +270,20 @@ class Explorer(widgets.VBox):
                            ("qubits", "parameters", "two_qubit_gates", "measurement_groups", "iterations")),
                          f"{row['time_s']:.2f}", html.escape(str(row["device"])),
                          *("—" if row[k] is None else row[k] for k in ("logical_two_qubit_gates", "swaps")),
-                         "—" if row["device_seconds"] is None else f"{row['device_seconds']:.3g}"])
+                         "—" if row["device_seconds"] is None else f"{row['device_seconds']:.3g}",
+                         self._threshold_cell(row)])
         return "<div class='gk-box' style='font-family:sans-serif;font-size:12px'>" + table(
             header, body, left=6) + "</div>"
+
+    @staticmethod
+    def _threshold_cell(row: dict[str, Any]) -> str:
+        """The threshold with its mitigation, the note as a tooltip; "—" when not asked for."""
+        if "threshold_mitigation" not in row:
+            return "—"
+        rate = row["threshold_two_qubit"]
+        value = "none found" if not rate else f"{rate:.2e}"
+        return (f"<span title='{html.escape(row['threshold_note'], quote=True)}'>{value} "
+                f"({html.escape(row['threshold_mitigation'])})</span>")
 
     @staticmethod
     def _note(text: str, colour: str, prefix: str = "") -> str:

@@ -97,3 +97,32 @@ def test_device_selector_adds_the_routed_columns(h2_pipeline):
     assert "SWAPs" in explorer.table_area.value and "line-16" in explorer.table_area.value
     own = gk.explore(h2_pipeline.device(gk.DeviceProfile(name="mine", connectivity="ring", size=5)))
     assert own.device.value.name == "mine"
+
+
+def test_noise_threshold_column_is_opt_in_and_matches_its_definition(h2_pipeline):
+    from groundkit.device import ErrorFigures
+    from groundkit.estimators import NoisyEstimator
+
+    explorer = gk.explore(h2_pipeline)
+    click(explorer)
+    assert "threshold_two_qubit" not in explorer.rows[0]  # off by default: a click stays a plain run
+    explorer.tolerance.value = True
+    explorer.tolerance_mitigation.value = ("readout",)
+    click(explorer)
+    row = explorer.rows[1]
+    assert row["threshold_mitigation"] == "readout" and row["threshold_two_qubit"] > 0
+    assert f"{row['threshold_two_qubit']:.2e} (readout)" in explorer.table_area.value
+    # the definition, checked outside the search: at the threshold rate the readout-mitigated energy at the run's
+    # parameters is within chemical accuracy (1.6 mHa, common practice, no single source) of the FCI reference
+    # (PySCF), and at the failing rate above it is not
+    base = ErrorFigures()
+    factor = row["threshold_two_qubit"] / base.two_qubit
+    pipeline = explorer.configured()
+    theta = explorer.results[1].parameters
+    reference = pipeline.problem().reference.energy
+
+    def error(f):
+        estimator = NoisyEstimator(errors=base.scaled(f), mitigation=("readout",), seed=7).bind(pipeline)
+        return abs(estimator.estimate(theta)[0] - reference)
+
+    assert error(factor) <= 1.6e-3 < error(factor * 1.5)
