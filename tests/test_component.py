@@ -51,7 +51,8 @@ EXAMPLES = [
     gk.DeviceProfile(), gk.DeviceProfile(name="mine", connectivity="graph", size=None, edges=[(0, 1), (1, 2)],
                                          native_gate="sqrt-iswap", durations=gk.device.GateDurations(reset=0.0)),
     *(gk.registry.build("device", name) for name in gk.device.BUILTIN_DEVICES),
-    *(lookup("grouping", name)() for name in ("qwc", "qwc-term-order", "commuting", "none", "qwc-overlap", "commuting-overlap")),
+    *(lookup("grouping", name)()
+      for name in ("qwc", "qwc-term-order", "commuting", "none", "qwc-overlap", "commuting-overlap")),
     lookup("grouping", "basis-rotation")(threshold=1e-8),
 ]
 
