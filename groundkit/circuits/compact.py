@@ -33,6 +33,7 @@ from .steps import Step, cnot, cz, one
 # Gray-code order of the controls (x, y, z) of the uniformly controlled rotation: the controls flipped before
 # each of the eight Ry's after the first, and the frame (controls XOR-ed into the target) seen by each Ry.
 _GRAY_FLIPS = (2, 1, 2, 0, 2, 1, 2, 0)
+assert _GRAY_FLIPS[-1] == 0  # the last entangler is on controls[0] = r2, merged with the undo in qubit_double
 _FRAMES = ((), (2,), (1, 2), (1,), (0, 1), (0, 1, 2), (0, 2), (0,))
 
 
@@ -62,9 +63,8 @@ def qubit_double(annihilated: Sequence[int], created: Sequence[int], angle: floa
         rotation.append(one("ry", target, sign * (-2.0 * angle) / 8.0, variable))
         rotation.append(cz(controls[flip], target))
     # CZ entanglers (Z on the target, like X, flips the Ry's sign, so the Gray-code frames keep their signs); the
-    # last one, CZ(r2, t)
-    # then CNOT(t→r2) of the undo is |1⟩⟨1|_t ⊗ X·Z = S†_t · CY(t→r2): one CNOT with S gates (13 in all)
-    assert _GRAY_FLIPS[-1] == 0
+    # last one, CZ(r2, t), then CNOT(t→r2) of the undo is |1⟩⟨1|_t ⊗ X·Z = S†_t · CY(t→r2): one CNOT with S gates
+    # (13 in all; the Gray code's last entangler is on controls[0] = r2)
     merged = [one("sdg", r2), cnot(target, r2), one("s", r2), one("sdg", target)]
     undo = [cnot(target, p2), cnot(target, p1)]
     return flips + move + rotation[:-1] + merged + undo + flips[::-1]

@@ -22,22 +22,12 @@ from dataclasses import dataclass
 import numpy as np
 from openfermion import QubitOperator
 
-from ..qubits.clifford import diagonalising_gates
-from ..qubits.sorted_insertion import masks, sorted_insertion
+from ..qubits.sorted_insertion import clashes, masks, sorted_insertion
 from ..registry import register
-from .basis_change import CliffordChange, QubitwiseChange
 from .grouping import Grouping
-from .groups import MeasurementGroup
+from .pauli_groupings import commuting_groups, constant_term, qubitwise_groups
 
 SPLIT_ITERATIONS = 200  # rounds of the weight / shot fixed point (converged well before on water STO-3G)
-
-
-def _compatible(compatibility: str, a: tuple[int, int], b: tuple[int, int]) -> bool:
-    (xa, za), (xb, zb) = a, b
-    if compatibility == "qubitwise":
-        overlap = (xa | za) & (xb | zb)
-        return (((xa ^ xb) | (za ^ zb)) & overlap) == 0
-    return bin((xa & zb) ^ (za & xb)).count("1") % 2 == 0
 
 
 def overlapped_term_groups(hamiltonian: QubitOperator, compatibility: str) -> list[list[tuple]]:
@@ -50,12 +40,23 @@ def overlapped_term_groups(hamiltonian: QubitOperator, compatibility: str) -> li
     for group in base:
         members = list(group)
         inside = set(group)
+        xs = np.array([bits[m][0] for m in members], dtype=np.int64)
+        zs = np.array([bits[m][1] for m in members], dtype=np.int64)
         for t in order:
-            if t not in inside and all(_compatible(compatibility, bits[t], bits[m]) for m in members):
+            if t not in inside and not clashes(compatibility, xs, zs, *bits[t]).any():
                 members.append(t)
                 inside.add(t)
+                xs, zs = np.append(xs, bits[t][0]), np.append(zs, bits[t][1])
         groups.append(members)
     return groups
+
+
+def _shares(shots: np.ndarray, members: list[np.ndarray], n_terms: int) -> list[np.ndarray]:
+    """w_tg = N_g / (sum of N over the groups holding t), one array per group."""
+    total = np.zeros(n_terms)
+    for g, m in enumerate(members):
+        total[m] += shots[g]
+    return [shots[g] / total[m] for g, m in enumerate(members)]
 
 
 def split_weights(coefficients: dict[tuple, float], term_groups: list[list[tuple]],
@@ -67,38 +68,18 @@ def split_weights(coefficients: dict[tuple, float], term_groups: list[list[tuple
     members = [np.array([index[t] for t in g]) for g in term_groups]
     shots = np.ones(len(term_groups))
     for _ in range(iterations):
-        total = np.zeros(len(c2))
-        for g, m in enumerate(members):
-            total[m] += shots[g]
-        weights = [shots[g] / total[m] for g, m in enumerate(members)]
+        weights = _shares(shots, members, len(c2))
         shots = np.array([np.sqrt(np.sum((w ** 2) * c2[m])) for w, m in zip(weights, members)])
         shots /= shots.sum()
-    total = np.zeros(len(c2))
-    for g, m in enumerate(members):
-        total[m] += shots[g]
-    return [shots[g] / total[m] for g, m in enumerate(members)]
+    return _shares(shots, members, len(c2))
 
 
 def _build(hamiltonian: QubitOperator, n_qubits: int, compatibility: str) -> tuple[float, list]:
-    constant = float(np.real(hamiltonian.terms.get((), 0.0)))
     term_groups = overlapped_term_groups(hamiltonian, compatibility)
     coefficients = {t: float(np.real(hamiltonian.terms[t])) for g in term_groups for t in g}
-    weights = split_weights(coefficients, term_groups)
-    place = 1 << np.arange(n_qubits - 1, -1, -1, dtype=np.int64)
-    groups = []
-    for terms, w in zip(term_groups, weights):
-        c = w * np.array([coefficients[t] for t in terms])
-        if compatibility == "qubitwise":
-            basis: dict[int, str] = {}
-            for term in terms:
-                basis.update(dict(term))
-            z_masks = np.array([sum(1 << (n_qubits - 1 - q) for q, _ in t) for t in terms], dtype=np.int64)
-            groups.append(MeasurementGroup(QubitwiseChange(dict(sorted(basis.items()))), c, z_masks, tuple(terms)))
-        else:
-            gates, zm, signs = diagonalising_gates(terms, n_qubits)
-            groups.append(MeasurementGroup(CliffordChange(tuple(gates)), signs * c, zm.astype(np.int64) @ place,
-                                           tuple(terms)))
-    return constant, groups
+    shares = split_weights(coefficients, term_groups)
+    build = qubitwise_groups if compatibility == "qubitwise" else commuting_groups
+    return constant_term(hamiltonian), build(hamiltonian, n_qubits, term_groups, shares)
 
 
 @register("grouping", "qwc-overlap", label="qubit-wise commuting, overlapped groups with split coefficients")

@@ -27,25 +27,47 @@ from .grouping import Grouping
 from .groups import MeasurementGroup
 
 
-def _constant(hamiltonian: QubitOperator) -> float:
+def constant_term(hamiltonian: QubitOperator) -> float:
+    """The identity term's coefficient (Hartree), measured by no group."""
     return float(np.real(hamiltonian.terms.get((), 0.0)))
+
+
+def _coefficients(hamiltonian: QubitOperator, terms: list[tuple], share: np.ndarray | None) -> np.ndarray:
+    coefficients = np.array([float(np.real(hamiltonian.terms[t])) for t in terms])
+    return coefficients if share is None else share * coefficients
 
 
 def _mask(term: tuple, n_qubits: int) -> int:
     return sum(1 << (n_qubits - 1 - q) for q, _ in term)
 
 
-def qubitwise_groups(hamiltonian: QubitOperator, n_qubits: int, term_groups: list[list[tuple]]) -> list:
-    """Measurement groups of qubit-wise commuting term lists (each qubit rotated to its group's Pauli)."""
+def qubitwise_groups(hamiltonian: QubitOperator, n_qubits: int, term_groups: list[list[tuple]],
+                     shares: list[np.ndarray] | None = None) -> list:
+    """Measurement groups of qubit-wise commuting term lists (each qubit rotated to its group's Pauli); ``shares``
+    (one array per group) scales each member's coefficient when a term is split over several groups."""
     groups = []
-    for terms in term_groups:
+    for g, terms in enumerate(term_groups):
         basis: dict[int, str] = {}
         for term in terms:
             basis.update(dict(term))
-        coefficients = np.array([float(np.real(hamiltonian.terms[t])) for t in terms])
+        coefficients = _coefficients(hamiltonian, terms, None if shares is None else shares[g])
         masks = np.array([_mask(t, n_qubits) for t in terms], dtype=np.int64)
         groups.append(MeasurementGroup(QubitwiseChange(dict(sorted(basis.items()))), coefficients, masks,
                                        tuple(terms)))
+    return groups
+
+
+def commuting_groups(hamiltonian: QubitOperator, n_qubits: int, term_groups: list[list[tuple]],
+                     shares: list[np.ndarray] | None = None) -> list:
+    """Measurement groups of fully commuting term lists, each after its diagonalising Clifford circuit; ``shares``
+    as in :func:`qubitwise_groups`."""
+    weights = 1 << np.arange(n_qubits - 1, -1, -1, dtype=np.int64)
+    groups = []
+    for g, terms in enumerate(term_groups):
+        gates, z_masks, signs = diagonalising_gates(terms, n_qubits)
+        coefficients = signs * _coefficients(hamiltonian, terms, None if shares is None else shares[g])
+        groups.append(MeasurementGroup(CliffordChange(tuple(gates)), coefficients,
+                                       z_masks.astype(np.int64) @ weights, tuple(terms)))
     return groups
 
 
@@ -57,7 +79,7 @@ class QubitwiseSorted(Grouping):
 
     def pauli_groups(self, hamiltonian: QubitOperator, n_qubits: int) -> tuple[float, list]:
         term_groups = sorted_insertion(hamiltonian, "qubitwise")
-        return _constant(hamiltonian), qubitwise_groups(hamiltonian, n_qubits, term_groups)
+        return constant_term(hamiltonian), qubitwise_groups(hamiltonian, n_qubits, term_groups)
 
 
 @register("grouping", "qwc-term-order", label="qubit-wise commuting, first fit in Pauli-string order")
@@ -67,7 +89,7 @@ class QubitwiseTermOrder(Grouping):
 
     def pauli_groups(self, hamiltonian: QubitOperator, n_qubits: int) -> tuple[float, list]:
         term_groups = sorted_insertion(hamiltonian, "qubitwise", by_magnitude=False)
-        return _constant(hamiltonian), qubitwise_groups(hamiltonian, n_qubits, term_groups)
+        return constant_term(hamiltonian), qubitwise_groups(hamiltonian, n_qubits, term_groups)
 
 
 @register("grouping", "commuting", aliases=("fully-commuting",),
@@ -77,14 +99,8 @@ class CommutingSorted(Grouping):
     """Fully commuting groups by sorted insertion, each measured after a diagonalising Clifford circuit."""
 
     def pauli_groups(self, hamiltonian: QubitOperator, n_qubits: int) -> tuple[float, list]:
-        groups = []
-        for terms in sorted_insertion(hamiltonian, "commuting"):
-            gates, z_masks, signs = diagonalising_gates(terms, n_qubits)
-            weights = 1 << np.arange(n_qubits - 1, -1, -1, dtype=np.int64)
-            masks = z_masks.astype(np.int64) @ weights
-            coefficients = signs * np.array([float(np.real(hamiltonian.terms[t])) for t in terms])
-            groups.append(MeasurementGroup(CliffordChange(tuple(gates)), coefficients, masks, tuple(terms)))
-        return _constant(hamiltonian), groups
+        term_groups = sorted_insertion(hamiltonian, "commuting")
+        return constant_term(hamiltonian), commuting_groups(hamiltonian, n_qubits, term_groups)
 
 
 @register("grouping", "none", aliases=("single-terms",), label="one Pauli term per group")
@@ -94,4 +110,4 @@ class SingleTerms(Grouping):
 
     def pauli_groups(self, hamiltonian: QubitOperator, n_qubits: int) -> tuple[float, list]:
         term_groups = [[t] for t in ordered_terms(hamiltonian)]
-        return _constant(hamiltonian), qubitwise_groups(hamiltonian, n_qubits, term_groups)
+        return constant_term(hamiltonian), qubitwise_groups(hamiltonian, n_qubits, term_groups)

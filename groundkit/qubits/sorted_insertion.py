@@ -43,6 +43,15 @@ def masks(term: tuple) -> tuple[int, int]:
     return x, z
 
 
+def clashes(compatibility: str, xs: np.ndarray, zs: np.ndarray, x: int, z: int) -> np.ndarray:
+    """For Pauli strings with X/Z masks ``xs``, ``zs`` (int64 arrays, :func:`masks`), True where a string is not
+    compatible (``"qubitwise"`` or ``"commuting"``) with the string of masks ``x``, ``z``."""
+    if compatibility == "qubitwise":
+        overlap = (xs | zs) & (x | z)
+        return (((xs ^ x) | (zs ^ z)) & overlap) != 0
+    return (np.bitwise_count((xs & z) ^ (zs & x)) & 1) == 1
+
+
 def sorted_insertion(operator: QubitOperator, compatibility: str = "qubitwise",
                      by_magnitude: bool = True) -> list[list[tuple]]:
     """Groups of terms (each in insertion order) by first fit over :func:`ordered_terms`."""
@@ -57,12 +66,7 @@ def sorted_insertion(operator: QubitOperator, compatibility: str = "qubitwise",
     for k, term in enumerate(terms):
         x, z = masks(term)
         if groups:
-            mx, mz = xs[:k], zs[:k]
-            if compatibility == "qubitwise":
-                overlap = (mx | mz) & (x | z)
-                clash = (((mx ^ x) | (mz ^ z)) & overlap) != 0
-            else:
-                clash = (np.bitwise_count((mx & z) ^ (mz & x)) & 1) == 1
+            clash = clashes(compatibility, xs[:k], zs[:k], x, z)
             blocked = np.bincount(owner[:k][clash], minlength=len(groups))
             free = np.flatnonzero(blocked == 0)
             chosen = int(free[0]) if free.size else -1
