@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import pytest
+from pyscf import fci, gto, scf
 
 import groundkit as gk
 
@@ -119,7 +120,8 @@ def test_noise_threshold_column_is_opt_in_and_matches_its_definition(h2_pipeline
     factor = row["threshold_two_qubit"] / base.two_qubit
     pipeline = explorer.configured()
     theta = explorer.results[1].parameters
-    reference = pipeline.problem().reference.energy
+    mf = scf.RHF(gto.M(atom="H 0 0 0; H 0 0 0.7414", basis="sto-3g", verbose=0)).run(conv_tol=1e-12)
+    reference = fci.FCI(mf).kernel()[0]  # PySCF FCI of the same H2 (reference library)
 
     def error(f):
         estimator = NoisyEstimator(errors=base.scaled(f), mitigation=("readout",), seed=7).bind(pipeline)
