@@ -161,7 +161,7 @@ def test_point_files_keep_the_users_umask(tmp_path):
 def test_ctrl_c_inside_a_point_stops_the_scan_and_a_resume_recomputes_that_point(tmp_path, monkeypatch):
     pipeline = gk.Pipeline().trial_state(gk.UCCSD())
     whole = pipeline.scan(h2, VALUES)
-    gk.workspace().clear()  # the same minimisations, or other work kept by earlier tests, would be reused
+    gk.workspace().clear("minimisation")  # the same minimisations again would be answered from the workspace
     seen = ctrl_c_inside(monkeypatch, 0.8)
     with pytest.raises(KeyboardInterrupt):
         pipeline.scan(h2, VALUES, checkpoint=str(tmp_path))
